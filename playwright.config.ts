@@ -1,0 +1,35 @@
+import { defineConfig } from '@playwright/test';
+
+// Debian's Chromium only: a browser download is neither needed nor possible here.
+const chromiumArgs = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--no-first-run',
+];
+
+const port = Number(process.env.SLOTSMITH_E2E_PORT ?? 4174);
+
+export default defineConfig({
+  testDir: 'e2e',
+  fullyParallel: false,
+  workers: 1,
+  retries: 0,
+  reporter: [['list']],
+  timeout: 60_000,
+  use: {
+    baseURL: `http://127.0.0.1:${port}`,
+    headless: true,
+    launchOptions: { executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium', args: chromiumArgs },
+  },
+  projects: [{ name: 'chromium', use: { browserName: 'chromium' } }],
+  webServer: {
+    command: `npx vite preview --port ${port} --strictPort --host 127.0.0.1`,
+    url: `http://127.0.0.1:${port}`,
+    reuseExistingServer: false,
+    timeout: 60_000,
+  },
+});
