@@ -27,7 +27,9 @@ export default defineConfig({
   },
   projects: [{ name: 'chromium', use: { browserName: 'chromium' } }],
   webServer: {
-    command: `npx vite preview --port ${port} --strictPort --host 127.0.0.1`,
+    // The README's own command, so this run proves `npm start` serves a working page.
+    command: 'node scripts/start.mjs',
+    env: { PORT: String(port) },
     url: `http://127.0.0.1:${port}`,
     reuseExistingServer: false,
     timeout: 60_000,

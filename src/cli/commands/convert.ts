@@ -1,0 +1,52 @@
+import { columnsWrite, jsonlWrite } from '../../core/formats';
+import { tagsConvert } from '../../core/schemes';
+import type { Utterance } from '../../core/types';
+import { EXIT_BAD_INPUT, EXIT_OK } from '../exit-codes';
+import { type CliIo, fileWriteAtomic } from '../io';
+import { documentLoad, type LoadOptions } from '../load';
+import { violationsLocate } from './check';
+
+export const OUTPUT_FORMATS = ['iob1', 'iob2', 'bioes', 'jsonl'] as const;
+export type OutputFormat = (typeof OUTPUT_FORMATS)[number];
+
+export interface ConvertOptions extends LoadOptions {
+  to: OutputFormat;
+  output?: string;
+}
+
+function documentWrite(utterances: readonly Utterance[], to: OutputFormat): string {
+  if (to === 'jsonl') return jsonlWrite(utterances);
+  return columnsWrite(utterances.map((u) => ({ ...u, tags: tagsConvert(u.tags, to) })));
+}
+
+/** Convert one file; malformed input writes nothing, so an existing OUT is never replaced by a partial file. */
+export function convertRun(input: string, options: ConvertOptions, io: CliIo): number {
+  const loaded = documentLoad(input, options);
+  if (!loaded.ok) {
+    io.err(`${input}:0: error: ${loaded.message}\n`);
+    return EXIT_BAD_INPUT;
+  }
+  const { document } = loaded;
+  if (document.errors.length > 0) {
+    for (const e of document.errors) io.err(`${input}:${e.line}: error: ${e.message}\n`);
+    io.err(`${input}: ${document.errors.length} malformed line(s); nothing written\n`);
+    return EXIT_BAD_INPUT;
+  }
+  const violations = violationsLocate(document);
+  if (violations.length > 0) {
+    io.err(
+      `${input}: ${violations.length} illegal transition(s) read as the CoNLL-2000 evaluation does ` +
+        `(a stray inside tag starts a new span); run \`check\` to list them\n`,
+    );
+  }
+  let text: string;
+  try {
+    text = documentWrite(document.utterances, options.to);
+  } catch (error) {
+    io.err(`${input}: error: ${(error as Error).message}\n`);
+    return EXIT_BAD_INPUT;
+  }
+  if (options.output === undefined) io.out(text);
+  else fileWriteAtomic(options.output, text);
+  return EXIT_OK;
+}

@@ -1,0 +1,88 @@
+import { parseArgs } from 'node:util';
+import { SCHEMES, type Scheme } from '../core/types';
+import { PRODUCT_NAME } from '../core/version';
+import { checkRun } from './commands/check';
+import { convertRun, OUTPUT_FORMATS, type OutputFormat } from './commands/convert';
+import { EXIT_BAD_INPUT, EXIT_OK } from './exit-codes';
+import { type CliIo, processIo } from './io';
+import { INPUT_FORMATS, type InputFormat } from './load';
+
+declare const __CLI_VERSION__: string | undefined;
+
+const USAGE = `${PRODUCT_NAME} command line
+
+Usage:
+  slotsmith check FILE... [--scheme iob1|iob2|bioes] [--from FORMAT] [--json]
+      Report malformed lines and illegal tag transitions.
+      Exit 0: clean; 1: transition violations only; 2: malformed or unreadable input.
+  slotsmith convert IN --to iob1|iob2|bioes|jsonl [--from FORMAT] [--scheme S] [-o OUT]
+      Rewrite IN in canonical form (stdout, or OUT written atomically).
+      FORMAT: ${INPUT_FORMATS.join(', ')} (detected from name and content when absent).
+      CSV/TSV input also needs --column NAME.
+  slotsmith --help | --version
+`;
+
+function oneOf<T extends string>(value: string | undefined, allowed: readonly T[], flag: string): T | undefined {
+  if (value === undefined) return undefined;
+  if ((allowed as readonly string[]).includes(value)) return value as T;
+  throw new UsageError(`${flag} must be one of ${allowed.join(', ')} (got "${value}")`);
+}
+
+class UsageError extends Error {}
+
+function parse(argv: string[]) {
+  return parseArgs({
+    args: argv,
+    allowPositionals: true,
+    strict: true,
+    options: {
+      scheme: { type: 'string' },
+      from: { type: 'string' },
+      to: { type: 'string' },
+      output: { type: 'string', short: 'o' },
+      column: { type: 'string' },
+      json: { type: 'boolean', default: false },
+      help: { type: 'boolean', short: 'h', default: false },
+      version: { type: 'boolean', short: 'v', default: false },
+    },
+  });
+}
+
+/** Entry point; returns the exit code so tests can call it in-process. */
+export async function main(argv: string[], io: CliIo = processIo): Promise<number> {
+  try {
+    const { values, positionals } = parse(argv);
+    if (values.version) {
+      io.out(`${typeof __CLI_VERSION__ === 'string' ? __CLI_VERSION__ : 'dev'}\n`);
+      return EXIT_OK;
+    }
+    const [command, ...files] = positionals;
+    if (values.help || command === undefined || command === 'help') {
+      io.out(USAGE);
+      return command === undefined && !values.help ? EXIT_BAD_INPUT : EXIT_OK;
+    }
+    const scheme = oneOf<Scheme>(values.scheme, SCHEMES, '--scheme');
+    const from = oneOf<InputFormat>(values.from, INPUT_FORMATS, '--from');
+    const load = { ...(scheme && { scheme }), ...(from && { from }), ...(values.column !== undefined && { column: values.column }) };
+    switch (command) {
+      case 'check':
+        if (files.length === 0) throw new UsageError('check needs at least one FILE');
+        return checkRun(files, { ...load, json: values.json }, io);
+      case 'convert': {
+        if (files.length !== 1) throw new UsageError('convert takes exactly one input file');
+        const to = oneOf<OutputFormat>(values.to, OUTPUT_FORMATS, '--to');
+        if (to === undefined) throw new UsageError('convert needs --to iob1|iob2|bioes|jsonl');
+        const output = values.output === undefined ? {} : { output: values.output };
+        return convertRun(files[0] as string, { ...load, to, ...output }, io);
+      }
+      default:
+        throw new UsageError(`unknown command "${command}"`);
+    }
+  } catch (error) {
+    if (error instanceof UsageError || (error as { code?: string }).code?.startsWith('ERR_PARSE_ARGS')) {
+      io.err(`slotsmith: ${(error as Error).message}\n\n${USAGE}`);
+      return EXIT_BAD_INPUT;
+    }
+    throw error;
+  }
+}
