@@ -23,5 +23,6 @@ export default defineConfig({
     testTimeout: 60_000,
     hookTimeout: 120_000,
     pool: 'forks',
+    globalSetup: ['tests/global-setup.ts'],
   },
 });

@@ -1,5 +1,6 @@
 import { parseArgs } from 'node:util';
 import { SCHEMES, type Scheme } from '../core/types';
+import { MASK_KINDS, type MaskKind } from '../core/privacy';
 import { PRODUCT_NAME } from '../core/version';
 import { checkRun } from './commands/check';
 import { convertRun, OUTPUT_FORMATS, type OutputFormat } from './commands/convert';
@@ -15,8 +16,9 @@ Usage:
   slotsmith check FILE... [--scheme iob1|iob2|bioes] [--from FORMAT] [--json]
       Report malformed lines and illegal tag transitions.
       Exit 0: clean; 1: transition violations only; 2: malformed or unreadable input.
-  slotsmith convert IN --to iob1|iob2|bioes|jsonl [--from FORMAT] [--scheme S] [-o OUT]
+  slotsmith convert IN --to iob1|iob2|bioes|jsonl [--from FORMAT] [--scheme S] [--mask digits,email] [-o OUT]
       Rewrite IN in canonical form (stdout, or OUT written atomically).
+      --mask hides digits and/or e-mail addresses (same length, so labels stay aligned).
       FORMAT: ${INPUT_FORMATS.join(', ')} (detected from name and content when absent).
       CSV/TSV input also needs --column NAME.
   slotsmith --help | --version
@@ -30,6 +32,14 @@ function oneOf<T extends string>(value: string | undefined, allowed: readonly T[
 
 class UsageError extends Error {}
 
+function maskKindsParse(value: string): MaskKind[] {
+  return value.split(',').map((kind) => {
+    const parsed = oneOf<MaskKind>(kind.trim(), MASK_KINDS, '--mask');
+    if (parsed === undefined) throw new UsageError('--mask needs digits, email or both');
+    return parsed;
+  });
+}
+
 function parse(argv: string[]) {
   return parseArgs({
     args: argv,
@@ -41,6 +51,7 @@ function parse(argv: string[]) {
       to: { type: 'string' },
       output: { type: 'string', short: 'o' },
       column: { type: 'string' },
+      mask: { type: 'string' },
       json: { type: 'boolean', default: false },
       help: { type: 'boolean', short: 'h', default: false },
       version: { type: 'boolean', short: 'v', default: false },
@@ -73,7 +84,8 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
         const to = oneOf<OutputFormat>(values.to, OUTPUT_FORMATS, '--to');
         if (to === undefined) throw new UsageError('convert needs --to iob1|iob2|bioes|jsonl');
         const output = values.output === undefined ? {} : { output: values.output };
-        return convertRun(files[0] as string, { ...load, to, ...output }, io);
+        const mask = values.mask === undefined ? [] : maskKindsParse(values.mask);
+        return convertRun(files[0] as string, { ...load, to, ...output, mask }, io);
       }
       default:
         throw new UsageError(`unknown command "${command}"`);

@@ -1,4 +1,5 @@
 import { columnsWrite, jsonlWrite } from '../../core/formats';
+import { type MaskKind, textMask } from '../../core/privacy';
 import { tagsConvert } from '../../core/schemes';
 import type { Utterance } from '../../core/types';
 import { EXIT_BAD_INPUT, EXIT_OK } from '../exit-codes';
@@ -12,6 +13,8 @@ export type OutputFormat = (typeof OUTPUT_FORMATS)[number];
 export interface ConvertOptions extends LoadOptions {
   to: OutputFormat;
   output?: string;
+  /** Length-preserving masking of the utterance text (tokens keep their offsets). */
+  mask?: readonly MaskKind[];
 }
 
 function documentWrite(utterances: readonly Utterance[], to: OutputFormat): string {
@@ -39,9 +42,11 @@ export function convertRun(input: string, options: ConvertOptions, io: CliIo): n
         `(a stray inside tag starts a new span); run \`check\` to list them\n`,
     );
   }
+  const mask = options.mask ?? [];
+  const utterances = mask.length === 0 ? document.utterances : document.utterances.map((u) => ({ ...u, text: textMask(u.text, mask) }));
   let text: string;
   try {
-    text = documentWrite(document.utterances, options.to);
+    text = documentWrite(utterances, options.to);
   } catch (error) {
     io.err(`${input}: error: ${(error as Error).message}\n`);
     return EXIT_BAD_INPUT;
