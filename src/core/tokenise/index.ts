@@ -1,1 +1,2 @@
+export * from './offsets';
 export * from './tokenise';

@@ -3,7 +3,11 @@ import type { Token } from '../types';
 /**
  * How an utterance text becomes tokens. `words` follows Unicode word segmentation (UAX #29) via
  * `Intl.Segmenter`, keeps punctuation as tokens and drops whitespace; `whitespace` splits on runs of
- * white space; `regex` takes each match of a user pattern as a token.
+ * Unicode White_Space; `regex` takes each non-empty match of a user pattern as a token.
+ *
+ * Every kind then applies one rule so that no token is invisible: whitespace at a token's edges is
+ * trimmed (whole grapheme clusters only, so a combining mark never loses its base), and a token made
+ * only of White_Space or Default_Ignorable_Code_Point characters (LRM/RLM, ZWJ, ZWSP…) is dropped.
  */
 export type TokeniserSpec =
   | { kind: 'words' }
@@ -16,41 +20,105 @@ export class TokeniserError extends Error {
   override name = 'TokeniserError';
 }
 
-const WHITESPACE_ONLY = /^\s+$/u;
-const NON_WHITESPACE_RUN = /\S+/gu;
+const BLANK_ONLY = /^[\p{White_Space}\p{Default_Ignorable_Code_Point}]*$/u;
+const WHITE_SPACE_ONLY = /^\p{White_Space}+$/u;
+const WHITE_SPACE_CHAR = /^\p{White_Space}$/u;
+// Unicode White_Space, not JavaScript's \s: \s adds U+FEFF and misses U+0085 (PropList.txt).
+const NON_WHITE_SPACE_RUN = /[^\p{White_Space}]+/gu;
 
-let segmenter: Intl.Segmenter | undefined;
+// One shared instance each: constructing a segmenter costs far more than segmenting a short utterance.
+let wordSegmenter: Intl.Segmenter | undefined;
+let graphemeSegmenter: Intl.Segmenter | undefined;
 
 /** Raw UAX #29 word segments (whitespace runs included), as [start, end) UTF-16 offsets. */
 export function wordSegments(text: string): Token[] {
-  // One shared instance: constructing a segmenter costs far more than segmenting a short utterance.
-  segmenter ??= new Intl.Segmenter('und', { granularity: 'word' });
+  wordSegmenter ??= new Intl.Segmenter('und', { granularity: 'word' });
   const out: Token[] = [];
-  for (const { segment, index } of segmenter.segment(text)) {
+  for (const { segment, index } of wordSegmenter.segment(text)) {
     out.push({ start: index, end: index + segment.length });
   }
   return out;
 }
 
-export function tokeniseWords(text: string): Token[] {
-  return wordSegments(text).filter((t) => !WHITESPACE_ONLY.test(text.slice(t.start, t.end)));
+/** The visible part of text[start, end), or null when nothing visible is left (see TokeniserSpec). */
+function tokenVisible(text: string, start: number, end: number): Token | null {
+  const piece = text.slice(start, end);
+  if (BLANK_ONLY.test(piece)) return null;
+  const edgeIsSpace = WHITE_SPACE_CHAR.test(piece[0] ?? '') || WHITE_SPACE_CHAR.test(piece[piece.length - 1] ?? '');
+  if (!edgeIsSpace) return { start, end };
+  graphemeSegmenter ??= new Intl.Segmenter('und', { granularity: 'grapheme' });
+  const clusters = [...graphemeSegmenter.segment(piece)];
+  let first = 0;
+  let last = clusters.length - 1;
+  while (WHITE_SPACE_ONLY.test(clusters[first]?.segment ?? '')) first++;
+  while (WHITE_SPACE_ONLY.test(clusters[last]?.segment ?? '')) last--;
+  const from = clusters[first];
+  const to = clusters[last];
+  // Not blank, so at least one cluster is not pure whitespace: from/to exist and from <= to.
+  if (from === undefined || to === undefined) return null;
+  return { start: start + from.index, end: start + to.index + to.segment.length };
 }
 
-export function tokeniseWhitespace(text: string): Token[] {
-  return tokeniseByRegex(text, NON_WHITESPACE_RUN);
-}
-
-function tokeniseByRegex(text: string, pattern: RegExp): Token[] {
+function tokensVisible(text: string, pieces: Iterable<Token>): Token[] {
   const out: Token[] = [];
-  for (const match of text.matchAll(pattern)) {
-    const start = match.index;
-    const end = start + match[0].length;
-    if (end > start) out.push({ start, end });
+  for (const { start, end } of pieces) {
+    const token = tokenVisible(text, start, end);
+    if (token !== null) out.push(token);
   }
   return out;
 }
 
-/** Build a tokeniser from its spec; an invalid user pattern throws a `TokeniserError` saying why. */
+export function tokeniseWords(text: string): Token[] {
+  return tokensVisible(text, wordSegments(text));
+}
+
+export function tokeniseWhitespace(text: string): Token[] {
+  return tokensVisible(text, regexMatches(text, NON_WHITE_SPACE_RUN));
+}
+
+/** Non-empty matches of a global pattern. `matchAll` steps one code point past an empty match, so it cannot loop. */
+function* regexMatches(text: string, pattern: RegExp): Generator<Token> {
+  for (const match of text.matchAll(pattern)) {
+    const start = match.index;
+    const end = start + match[0].length;
+    if (end > start) yield { start, end };
+  }
+}
+
+/** V8 says "Invalid regular expression: /(/gu: Unterminated group"; keep only the reason. */
+function regexReason(error: unknown): string {
+  const message = error instanceof Error ? error.message : String(error);
+  return message.replace(/^Invalid regular expression: \/[\s\S]*\/[a-z]*: /, '');
+}
+
+/**
+ * Compile a user token pattern. `g` is always on; `u` is added unless `v` is given, so matches never
+ * split a surrogate pair; `y` is dropped because sticky matching would stop at the first gap.
+ */
+function tokenPatternCompile(pattern: string, userFlags: string): RegExp {
+  if (pattern === '') throw new TokeniserError('Token pattern is empty: give a regular expression that matches one token.');
+  const flags = new Set(userFlags);
+  const unknown = [...flags].filter((flag) => !'dgimsuvy'.includes(flag));
+  if (unknown.length > 0 || (flags.has('u') && flags.has('v'))) {
+    throw new TokeniserError(
+      `Token pattern flags "${userFlags}" are not valid: use any of d, i, m, s and one of u or v (g is always on).`,
+    );
+  }
+  flags.delete('y');
+  flags.add('g');
+  if (!flags.has('v')) flags.add('u');
+  try {
+    return new RegExp(pattern, [...flags].join(''));
+  } catch (error) {
+    throw new TokeniserError(`Token pattern /${pattern}/${userFlags} is not a valid regular expression: ${regexReason(error)}`);
+  }
+}
+
+/**
+ * Build a tokeniser from its spec; a bad spec throws a `TokeniserError` saying why. A regex is
+ * compiled once here. Catastrophic backtracking cannot be interrupted on the calling thread: callers
+ * running user patterns over a whole corpus should do so in a worker they can terminate.
+ */
 export function tokeniserCreate(spec: TokeniserSpec): Tokeniser {
   switch (spec.kind) {
     case 'words':
@@ -58,15 +126,13 @@ export function tokeniserCreate(spec: TokeniserSpec): Tokeniser {
     case 'whitespace':
       return tokeniseWhitespace;
     case 'regex': {
-      const flags = new Set([...(spec.flags ?? ''), 'g', 'u']);
-      flags.delete('y');
-      let pattern: RegExp;
-      try {
-        pattern = new RegExp(spec.pattern, [...flags].join(''));
-      } catch (error) {
-        throw new TokeniserError(`invalid token pattern /${spec.pattern}/: ${(error as Error).message}`);
-      }
-      return (text) => tokeniseByRegex(text, pattern);
+      const pattern = tokenPatternCompile(spec.pattern, spec.flags ?? '');
+      return (text) => tokensVisible(text, regexMatches(text, pattern));
+    }
+    default: {
+      // Specs arrive from saved projects and the command line, so an unknown kind is possible at run time.
+      const kind = JSON.stringify((spec as { kind?: unknown }).kind);
+      throw new TokeniserError(`Unknown tokeniser kind ${kind}: expected "words", "whitespace" or "regex".`);
     }
   }
 }
