@@ -167,10 +167,8 @@ describe('regex tokeniser', () => {
 
   it.each(['x*', '\\b', '(?=a)', '(?<=a)', '$', '(?:)*', 'a|'])('finishes on the empty-matching pattern %s over a long text', (pattern) => {
     const text = 'a🔧 '.repeat(50_000);
-    const started = performance.now();
+    // A pattern that loops on empty matches would hang here and hit the test timeout; speed is not asserted.
     const tokens = tokenise(text, { kind: 'regex', pattern, flags: 'm' });
-    // common practice, no source: a linear scan of 200 000 code units takes well under a few seconds.
-    expect(performance.now() - started).toBeLessThan(5_000);
     expect(tokens.every(({ start, end }) => end > start)).toBe(true);
     expect(tokens).toHaveLength(pattern === 'a|' ? 50_000 : 0);
   });
