@@ -1,2 +1,3 @@
 export * from './codec';
+export * from './detect';
 export * from './tag';

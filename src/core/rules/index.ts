@@ -1,0 +1,4 @@
+export * from './repair';
+export * from './ruleIds';
+export * from './schema';
+export * from './transitions';
