@@ -26,8 +26,8 @@ describe('slotsmith check', () => {
     expect(file?.violations).toEqual([
       { line: 8, tag: 'I-day', previous: 'O', rule: expect.any(String) },
       { line: 13, tag: 'I-service', previous: null, rule: expect.any(String) },
-      { line: 18, tag: 'I-day', previous: 'B-service', rule: expect.any(String) },
-      { line: 19, tag: 'I-time_window', previous: 'I-day', rule: expect.any(String) },
+      { line: 19, tag: 'I-day', previous: 'B-service', rule: expect.any(String) },
+      { line: 20, tag: 'I-time_window', previous: 'I-day', rule: expect.any(String) },
     ]);
     const rules = (file?.violations as Array<{ rule: string }>).map((v) => v.rule);
     // I-X after O, at the start, and after another slot are three different rules.
