@@ -1,0 +1,237 @@
+import { SCHEME_PREFIXES, tagIsInScheme } from '../schemes';
+import type { Document, ReadError, Scheme, Token, Utterance } from '../types';
+import { commentParse, lineIsComment } from './columns-comment';
+import {
+  documentRead,
+  errorsSort,
+  readerFromLineParser,
+  UNDECODABLE_MESSAGE,
+  type DocumentReader,
+  type LineParser,
+  type ReadInput,
+} from './reader';
+import { SchemeEvidence } from './scheme-evidence';
+import { TagTable } from './tag-table';
+
+export interface ColumnsReadOptions {
+  /** The file's scheme; detected from the tags when absent (see `SchemeEvidence`). */
+  scheme?: Scheme;
+}
+
+const SPACE = 32;
+const TAB = 9;
+const DOCSTART = '-DOCSTART-';
+
+
+function charIsSeparator(code: number): boolean {
+  return code === SPACE || code === TAB;
+}
+
+function schemeName(scheme: Scheme): string {
+  return scheme === 'bioes' ? 'BIOES' : scheme.toUpperCase();
+}
+
+function schemeMismatchMessage(tag: string, scheme: Scheme): string {
+  const allowed = ['O', ...[...SCHEME_PREFIXES[scheme]].map((p) => `${p}-`)].join(', ');
+  return `tag ${JSON.stringify(tag)} is not in the ${schemeName(scheme)} scheme (allowed: ${allowed})`;
+}
+
+function tagInvalidMessage(tag: string): string {
+  return `tag ${JSON.stringify(tag)} is not a valid tag: expected O, or B-, I-, E- or S- followed by a slot name`;
+}
+
+function regionEquals(a: string, aStart: number, b: string, bStart: number, length: number): boolean {
+  if (aStart + length > a.length) return false;
+  for (let i = 0; i < length; i++) if (a.charCodeAt(aStart + i) !== b.charCodeAt(bStart + i)) return false;
+  return true;
+}
+
+/**
+ * Line parser for IOB/BIOES column files: `token … tag` lines (tab or spaces, tag in the last
+ * column), a blank line after each utterance, `# key = value` comments before it. An utterance with
+ * any error is left out whole; its errors name the offending lines. Tokens are placed as they are
+ * read (in `# text`, found in order, or joined by single spaces), so no token string is kept longer.
+ */
+class ColumnsParser implements LineParser {
+  private readonly utterances: Utterance[] = [];
+  private readonly errors: ReadError[] = [];
+  private readonly tagTable = new TagTable();
+  private readonly evidence = new SchemeEvidence();
+  private readonly scheme: Scheme | undefined;
+
+  // The utterance being read; `blockLine` is 0 between utterances.
+  private blockLine = 0;
+  private blockBad = false;
+  private tokens: Token[] = [];
+  private tags: string[] = [];
+  private tokenLines: number[] = [];
+  /** Where the next token may start: in `# text`, or in the text being joined. */
+  private offset = 0;
+  /** Token strings to join when there is no `# text`. */
+  private tokenTexts: string[] = [];
+  private textLost = false;
+  private id: string | undefined;
+  private intent: string | undefined;
+  private text: string | undefined;
+  private textLine = 0;
+  private meta: [string, string][] = [];
+
+  constructor(options: ColumnsReadOptions) {
+    this.scheme = options.scheme;
+  }
+
+  lineAdd(text: string, start: number, end: number, line: number): void {
+    let first = start;
+    while (first < end && charIsSeparator(text.charCodeAt(first))) first++;
+    if (first === end) {
+      this.blockEnd();
+      return;
+    }
+    if (first === start && lineIsComment(text, start, end)) {
+      this.commentAdd(text, start, end, line);
+      return;
+    }
+    let firstEnd = first + 1;
+    while (firstEnd < end && !charIsSeparator(text.charCodeAt(firstEnd))) firstEnd++;
+    if (firstEnd - first === DOCSTART.length && text.startsWith(DOCSTART, first)) return;
+    if (this.blockLine === 0) this.blockStart(line);
+    this.tokenLines.push(line);
+    let last = end;
+    while (charIsSeparator(text.charCodeAt(last - 1))) last--;
+    let lastStart = last;
+    while (lastStart > firstEnd && !charIsSeparator(text.charCodeAt(lastStart - 1))) lastStart--;
+    if (lastStart <= firstEnd) {
+      const only = JSON.stringify(text.slice(first, last));
+      this.errorAdd(line, `missing tag column: expected a token and a tag separated by a tab or spaces, got only ${only}`);
+      return;
+    }
+    const entry = this.tagTable.lookup(text, lastStart, last);
+    this.tags.push(entry.tag);
+    if (entry.parsed === null) {
+      this.errorAdd(line, tagInvalidMessage(entry.tag));
+    } else {
+      this.evidence.tagAdd(entry.parsed);
+      if (this.scheme !== undefined && !tagIsInScheme(entry.parsed, this.scheme)) {
+        this.errorAdd(line, schemeMismatchMessage(entry.tag, this.scheme));
+      }
+    }
+    if (this.text === undefined) {
+      this.tokenTexts.push(text.slice(first, firstEnd));
+      this.tokens.push({ start: this.offset, end: this.offset + firstEnd - first });
+      this.offset += firstEnd - first + 1;
+    } else {
+      this.tokenLocate(text, first, firstEnd, line);
+    }
+  }
+
+  lineUndecodable(line: number): void {
+    if (this.blockLine === 0) this.blockStart(line);
+    this.errorAdd(line, `${UNDECODABLE_MESSAGE}; its utterance is skipped`);
+  }
+
+  end(): Document {
+    this.blockEnd();
+    // A detected scheme admits every prefix seen (E-/S- make it BIOES), so only a given one is checked per line.
+    const scheme = this.scheme ?? this.evidence.scheme();
+    return { scheme, utterances: this.utterances, errors: errorsSort(this.errors) };
+  }
+
+  private tokenLocate(line: string, first: number, firstEnd: number, lineNumber: number): void {
+    const length = firstEnd - first;
+    const target = this.text;
+    if (target === undefined || this.textLost) return;
+    // Fast path: the token follows the previous one after some spaces. A token never starts with a
+    // space, so a match there is also the first match `indexOf` would find.
+    let at = this.offset;
+    while (target.charCodeAt(at) === SPACE) at++;
+    if (!regionEquals(target, at, line, first, length)) {
+      const token = line.slice(first, firstEnd);
+      at = target.indexOf(token, this.offset);
+      if (at < 0) {
+        this.textLost = true;
+        this.errorAdd(
+          lineNumber,
+          `token/text mismatch: token ${JSON.stringify(token)} is not in the "# text" comment (line ${this.textLine}) ` +
+            `after character ${this.offset}; the text must contain the tokens in order`,
+        );
+        return;
+      }
+    }
+    this.tokens.push({ start: at, end: at + length });
+    this.offset = at + length;
+  }
+
+  private commentAdd(text: string, start: number, end: number, line: number): void {
+    if (this.tokenLines.length > 0) {
+      this.errorAdd(line, 'comment line inside an utterance: comments must come before its first token line (is a blank line missing?)');
+      return;
+    }
+    if (this.blockLine === 0) this.blockStart(line);
+    const pair = commentParse(text, start, end);
+    if (pair === null) return;
+    const { key, value } = pair;
+    if (key === 'id') this.id = value;
+    else if (key === 'intent') this.intent = value;
+    else if (key === 'text') {
+      this.text = value;
+      this.textLine = line;
+    } else this.meta.push([key, value]);
+  }
+
+  private blockStart(line: number): void {
+    this.blockLine = line;
+    this.blockBad = false;
+    this.evidence.utteranceStart();
+  }
+
+  private errorAdd(line: number, message: string): void {
+    this.errors.push({ line, message });
+    this.blockBad = true;
+  }
+
+  private blockEnd(): void {
+    if (this.blockLine === 0) return;
+    if (this.tokenLines.length === 0) {
+      if (this.text !== undefined && !this.blockBad) {
+        this.errors.push({ line: this.textLine, message: '"# text" comment with no token lines after it' });
+      }
+    } else if (!this.blockBad) {
+      this.utteranceAdd();
+    }
+    this.blockLine = 0;
+    this.tokens = [];
+    this.tags = [];
+    this.tokenLines = [];
+    this.offset = 0;
+    this.tokenTexts.length = 0;
+    this.textLost = false;
+    this.id = undefined;
+    this.intent = undefined;
+    this.text = undefined;
+    this.meta = [];
+  }
+
+  private utteranceAdd(): void {
+    const utterance: Utterance = {
+      text: this.text ?? this.tokenTexts.join(' '),
+      tokens: this.tokens,
+      tags: this.tags,
+      meta: this.meta.length === 0 ? {} : Object.fromEntries(this.meta),
+      line: this.blockLine,
+      tokenLines: this.tokenLines,
+    };
+    if (this.id !== undefined) utterance.id = this.id;
+    if (this.intent !== undefined) utterance.intent = this.intent;
+    this.utterances.push(utterance);
+  }
+}
+
+/** Incremental column-file reader (see `DocumentReader`). */
+export function columnsReader(options: ColumnsReadOptions = {}): DocumentReader {
+  return readerFromLineParser(new ColumnsParser(options));
+}
+
+/** Read an IOB/BIOES column file; never throws on bad input (errors come back in the document). */
+export function columnsRead(input: ReadInput, options: ColumnsReadOptions = {}): Document {
+  return documentRead(columnsReader(options), input);
+}

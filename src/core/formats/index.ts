@@ -1,0 +1,12 @@
+export * from './columns-comment';
+export * from './columns-read';
+export * from './columns-write';
+export * from './delimited-read';
+export * from './delimited-write';
+export { type ColumnRef } from './delimited-rows';
+export * from './detect';
+export * from './errors';
+export * from './jsonl-read';
+export * from './jsonl-write';
+export { documentRead, type DocumentReader, type ReadInput } from './reader';
+export * from './text';

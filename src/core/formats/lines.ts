@@ -1,0 +1,81 @@
+/**
+ * Incremental line splitting shared by the line-based readers. Chunks may end anywhere, even between
+ * the CR and LF of a CRLF pair: a line is only emitted once its LF (or the end of input) arrives.
+ */
+
+/** Where decoded text goes; `pushUndecodable` carries one whole line that was not valid UTF-8. */
+export interface TextTarget {
+  push(text: string): void;
+  pushUndecodable(lineText: string): void;
+}
+
+/** Receives lines in file order; `text[start, end)` is line `line` (1-based) without its terminator. */
+export interface LineSink {
+  lineAdd(text: string, start: number, end: number, line: number): void;
+  lineUndecodable(line: number): void;
+}
+
+const LF = '\n';
+const CR = 13;
+const BOM = 0xfeff;
+
+export class LineSplitter implements TextTarget {
+  private carry = '';
+  private lineCount = 0;
+  private started = false;
+
+  constructor(private readonly sink: LineSink) {}
+
+  push(chunk: string): void {
+    if (chunk.length === 0) return;
+    let text = chunk;
+    if (!this.started) {
+      this.started = true;
+      if (text.charCodeAt(0) === BOM) text = text.slice(1);
+    }
+    let from = 0;
+    let newline = text.indexOf(LF);
+    if (this.carry !== '') {
+      if (newline < 0) {
+        this.carry += text;
+        return;
+      }
+      const whole = this.carry + text.slice(0, newline);
+      this.carry = '';
+      this.lineEmit(whole, 0, whole.length);
+      from = newline + 1;
+      newline = text.indexOf(LF, from);
+    }
+    const sink = this.sink;
+    while (newline >= 0) {
+      // lineEmit inlined: this loop runs once per line of a file of a million lines.
+      const end = newline > from && text.charCodeAt(newline - 1) === CR ? newline - 1 : newline;
+      sink.lineAdd(text, from, end, ++this.lineCount);
+      from = newline + 1;
+      newline = text.indexOf(LF, from);
+    }
+    this.carry = from < text.length ? text.slice(from) : '';
+  }
+
+  pushUndecodable(_lineText: string): void {
+    // The byte decoder only sends whole lines, so no partial line can be waiting in `carry` here.
+    this.started = true;
+    this.lineCount++;
+    this.sink.lineUndecodable(this.lineCount);
+  }
+
+  /** Flush the last line when the input does not end with a newline. */
+  end(): void {
+    if (this.carry !== '') {
+      const last = this.carry;
+      this.carry = '';
+      this.lineEmit(last, 0, last.length);
+    }
+  }
+
+  private lineEmit(text: string, start: number, end: number): void {
+    this.lineCount++;
+    const stop = end > start && text.charCodeAt(end - 1) === CR ? end - 1 : end;
+    this.sink.lineAdd(text, start, stop, this.lineCount);
+  }
+}
