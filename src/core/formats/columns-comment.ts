@@ -1,10 +1,5 @@
 /** `# key = value` comment lines of the IOB column format (the CoNLL-U comment convention). */
 
-export interface CommentPair {
-  key: string;
-  value: string;
-}
-
 /** Keys with a field of their own on `Utterance`; every other key goes to `meta`. */
 export const COMMENT_KEYS_RESERVED: readonly string[] = ['id', 'intent', 'text'];
 
@@ -24,24 +19,32 @@ export function lineIsComment(text: string, start: number, end: number): boolean
   return text.charCodeAt(start) === HASH && (end === start + 1 || text.charCodeAt(start + 1) === SPACE);
 }
 
+/** Where the key and value of a `# key = value` line lie; filled in place to spare an allocation per line. */
+export interface CommentBounds {
+  keyStart: number;
+  keyEnd: number;
+  valueStart: number;
+}
+
 /**
- * Parse `# key = value`; null for comments in any other form (skipped by readers). One space after
- * `=` belongs to the syntax, the rest of the line is the value, so leading or trailing spaces survive.
+ * Locate `# key = value` in `text[start, end)`; false for comments in any other form (skipped by
+ * readers). One space after `=` belongs to the syntax, the rest of the line is the value, so leading
+ * or trailing spaces survive.
  */
-export function commentParse(text: string, start: number, end: number): CommentPair | null {
+export function commentBounds(text: string, start: number, end: number, out: CommentBounds): boolean {
   let keyStart = start + 1;
   while (keyStart < end && charIsSeparator(text.charCodeAt(keyStart))) keyStart++;
   const equals = text.indexOf('=', keyStart);
-  if (equals < 0 || equals >= end) return null;
+  if (equals < 0 || equals >= end) return false;
   let keyEnd = equals;
   while (keyEnd > keyStart && charIsSeparator(text.charCodeAt(keyEnd - 1))) keyEnd--;
-  if (keyEnd === keyStart) return null;
-  const key = text.slice(keyStart, keyEnd);
+  if (keyEnd === keyStart) return false;
   // "# call back = later" is prose that happens to hold an equals sign, not a pair.
-  if (key.includes(' ') || key.includes('\t')) return null;
-  let valueStart = equals + 1;
-  if (valueStart < end && text.charCodeAt(valueStart) === SPACE) valueStart++;
-  return { key, value: text.slice(valueStart, end) };
+  for (let i = keyStart; i < keyEnd; i++) if (charIsSeparator(text.charCodeAt(i))) return false;
+  out.keyStart = keyStart;
+  out.keyEnd = keyEnd;
+  out.valueStart = equals + 1 < end && text.charCodeAt(equals + 1) === SPACE ? equals + 2 : equals + 1;
+  return true;
 }
 
 /** A key the writer may emit and the reader will give back unchanged. */

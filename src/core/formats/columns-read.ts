@@ -1,6 +1,6 @@
 import { SCHEME_PREFIXES, tagIsInScheme } from '../schemes';
 import type { Document, ReadError, Scheme, Token, Utterance } from '../types';
-import { commentParse, lineIsComment } from './columns-comment';
+import { commentBounds, lineIsComment, type CommentBounds } from './columns-comment';
 import {
   documentRead,
   errorsSort,
@@ -74,7 +74,8 @@ class ColumnsParser implements LineParser {
   private intent: string | undefined;
   private text: string | undefined;
   private textLine = 0;
-  private meta: [string, string][] = [];
+  private meta: Record<string, string> | null = null;
+  private readonly bounds: CommentBounds = { keyStart: 0, keyEnd: 0, valueStart: 0 };
 
   constructor(options: ColumnsReadOptions) {
     this.scheme = options.scheme;
@@ -167,15 +168,23 @@ class ColumnsParser implements LineParser {
       return;
     }
     if (this.blockLine === 0) this.blockStart(line);
-    const pair = commentParse(text, start, end);
-    if (pair === null) return;
-    const { key, value } = pair;
-    if (key === 'id') this.id = value;
-    else if (key === 'intent') this.intent = value;
-    else if (key === 'text') {
+    const bounds = this.bounds;
+    if (!commentBounds(text, start, end, bounds)) return;
+    const { keyStart, keyEnd } = bounds;
+    const value = text.slice(bounds.valueStart, end);
+    // The three reserved keys are recognised in place: a million-line file has hundreds of thousands.
+    if (keyEnd - keyStart === 2 && text.startsWith('id', keyStart)) this.id = value;
+    else if (keyEnd - keyStart === 6 && text.startsWith('intent', keyStart)) this.intent = value;
+    else if (keyEnd - keyStart === 4 && text.startsWith('text', keyStart)) {
       this.text = value;
       this.textLine = line;
-    } else this.meta.push([key, value]);
+    } else {
+      this.meta ??= {};
+      const key = text.slice(keyStart, keyEnd);
+      // Assigning "__proto__" would replace the prototype; it must stay a plain entry.
+      if (key === '__proto__') Object.defineProperty(this.meta, key, { value, enumerable: true, writable: true, configurable: true });
+      else this.meta[key] = value;
+    }
   }
 
   private blockStart(line: number): void {
@@ -208,7 +217,7 @@ class ColumnsParser implements LineParser {
     this.id = undefined;
     this.intent = undefined;
     this.text = undefined;
-    this.meta = [];
+    this.meta = null;
   }
 
   private utteranceAdd(): void {
@@ -216,7 +225,7 @@ class ColumnsParser implements LineParser {
       text: this.text ?? this.tokenTexts.join(' '),
       tokens: this.tokens,
       tags: this.tags,
-      meta: this.meta.length === 0 ? {} : Object.fromEntries(this.meta),
+      meta: this.meta ?? {},
       line: this.blockLine,
       tokenLines: this.tokenLines,
     };

@@ -24,10 +24,6 @@ export class ByteLineDecoder {
 
   constructor(private readonly target: TextTarget) {}
 
-  get hasPending(): boolean {
-    return this.pending.length > 0;
-  }
-
   push(chunk: Uint8Array): void {
     const lastNewline = chunk.lastIndexOf(LF);
     if (lastNewline < 0) {

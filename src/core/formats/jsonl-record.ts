@@ -3,6 +3,31 @@ import type { Tokeniser } from '../tokenise';
 import type { Scheme, Span, Token, Utterance } from '../types';
 import { codePointLength, offsetsCodePointsToUtf16, offsetsUtf16ToCodePoints } from './code-points';
 
+/** Tokens with both offsets mapped through `convert`, which takes and returns one flat list. */
+function tokensMapped(tokens: readonly Token[], convert: (flat: number[]) => number[]): Token[] {
+  const flat: number[] = new Array<number>(tokens.length * 2);
+  tokens.forEach((t, i) => {
+    flat[2 * i] = t.start;
+    flat[2 * i + 1] = t.end;
+  });
+  const mapped = convert(flat);
+  return tokens.map((_, i) => ({ start: mapped[2 * i] ?? 0, end: mapped[2 * i + 1] ?? 0 }));
+}
+
+/** Index of the token whose `key` offset equals `offset` (tokens sorted), or -1. */
+function tokenIndexAt(tokens: readonly Token[], key: 'start' | 'end', offset: number): number {
+  let low = 0;
+  let high = tokens.length - 1;
+  while (low <= high) {
+    const mid = (low + high) >> 1;
+    const value = tokens[mid]?.[key] ?? 0;
+    if (value === offset) return mid;
+    if (value < offset) low = mid + 1;
+    else high = mid - 1;
+  }
+  return -1;
+}
+
 /** A problem with one record; the reader turns it into a `ReadError` on the record's line. */
 class RecordError extends Error {}
 
@@ -70,12 +95,6 @@ function tokensRead(value: unknown, text: string, length: number): Token[] {
 function spansRead(value: unknown, tokens: readonly Token[], length: number): Span[] {
   if (value === undefined || value === null) return [];
   if (!Array.isArray(value)) throw new RecordError('"spans" must be an array of {"start", "end", "label"} objects');
-  const byStart = new Map<number, number>();
-  const byEnd = new Map<number, number>();
-  tokens.forEach((t, i) => {
-    byStart.set(t.start, i);
-    byEnd.set(t.end, i);
-  });
   const spans = value.map((raw, i): Span & { index: number } => {
     const where = `spans[${i}]`;
     const { start, end, item } = rangeRead(raw, where, length);
@@ -83,9 +102,9 @@ function spansRead(value: unknown, tokens: readonly Token[], length: number): Sp
     if (typeof label !== 'string' || !slotNameIsValid(label)) {
       throw new RecordError(`${where}.label must be a non-empty slot name without white space, got ${JSON.stringify(label)}`);
     }
-    const first = byStart.get(start);
-    const last = byEnd.get(end);
-    if (first === undefined || last === undefined || last < first) {
+    const first = tokenIndexAt(tokens, 'start', start);
+    const last = tokenIndexAt(tokens, 'end', end);
+    if (first < 0 || last < first) {
       throw new RecordError(`${where} [${start}, ${end}) is not on token boundaries`);
     }
     return { start: first, end: last + 1, slot: label, index: i };
@@ -118,14 +137,14 @@ function utteranceBuild(record: Json, tokenise: Tokeniser, scheme: Scheme): Utte
   let tokens: Token[];
   let tokensCodePoints: Token[];
   const length = codePointLength(text);
+  // Without surrogate pairs both kinds of offset coincide, and one token list serves for both.
+  const same = length === text.length;
   if (record.tokens === undefined || record.tokens === null) {
     tokens = tokenise(text);
-    const flat = offsetsUtf16ToCodePoints(text, tokens.flatMap((t) => [t.start, t.end]));
-    tokensCodePoints = tokens.map((_, i) => ({ start: flat[2 * i] ?? 0, end: flat[2 * i + 1] ?? 0 }));
+    tokensCodePoints = same ? tokens : tokensMapped(tokens, (flat) => offsetsUtf16ToCodePoints(text, flat));
   } else {
     tokensCodePoints = tokensRead(record.tokens, text, length);
-    const flat = offsetsCodePointsToUtf16(text, tokensCodePoints.flatMap((t) => [t.start, t.end]));
-    tokens = tokensCodePoints.map((_, i) => ({ start: flat[2 * i] ?? 0, end: flat[2 * i + 1] ?? 0 }));
+    tokens = same ? tokensCodePoints : tokensMapped(tokensCodePoints, (flat) => offsetsCodePointsToUtf16(text, flat));
   }
   const spans = spansRead(record.spans, tokensCodePoints, length);
   const utterance: Utterance = { text, tokens, tags: tagsFromSpans(spans, tokens.length, scheme), meta };

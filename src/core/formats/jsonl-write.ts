@@ -1,6 +1,6 @@
 import { spansAreWellFormed, spansFromTags, tagParse } from '../schemes';
 import type { Utterance } from '../types';
-import { offsetsUtf16ToCodePoints } from './code-points';
+import { offsetsUtf16ToCodePoints, textHasSurrogates } from './code-points';
 import { FormatWriteError } from './errors';
 
 function tokensProblem(utterance: Utterance): string | null {
@@ -30,7 +30,12 @@ function utteranceJson(utterance: Utterance, index: number): string {
   const problem = tokensProblem(utterance);
   if (problem !== null) throw new FormatWriteError('JSON Lines', utterance, index, problem);
   const { text, tokens } = utterance;
-  const flat = offsetsUtf16ToCodePoints(text, tokens.flatMap((t) => [t.start, t.end]));
+  const flat: number[] = new Array<number>(tokens.length * 2);
+  tokens.forEach((t, i) => {
+    flat[2 * i] = t.start;
+    flat[2 * i + 1] = t.end;
+  });
+  if (textHasSurrogates(text)) flat.splice(0, flat.length, ...offsetsUtf16ToCodePoints(text, flat));
   if (flat.includes(-1)) throw new FormatWriteError('JSON Lines', utterance, index, 'a token offset splits a surrogate pair');
   const spans = spansFromTags(utterance.tags);
   if (!spansAreWellFormed(spans, tokens.length)) throw new FormatWriteError('JSON Lines', utterance, index, 'its tags do not decode to spans');
