@@ -3,11 +3,16 @@ import type { TextTarget } from './lines';
 const LF = 0x0a;
 const EMPTY = new Uint8Array(0);
 
-function bytesConcat(a: Uint8Array, b: Uint8Array): Uint8Array {
-  if (a.length === 0) return b;
-  const out = new Uint8Array(a.length + b.length);
-  out.set(a, 0);
-  out.set(b, a.length);
+function bytesConcat(parts: readonly Uint8Array[]): Uint8Array {
+  if (parts.length === 1) return parts[0] ?? EMPTY;
+  let length = 0;
+  for (const part of parts) length += part.length;
+  const out = new Uint8Array(length);
+  let at = 0;
+  for (const part of parts) {
+    out.set(part, at);
+    at += part.length;
+  }
   return out;
 }
 
@@ -18,7 +23,8 @@ function bytesConcat(a: Uint8Array, b: Uint8Array): Uint8Array {
  * A BOM is passed through as U+FEFF: the text consumers strip it, so bytes and strings agree.
  */
 export class ByteLineDecoder {
-  private pending: Uint8Array = EMPTY;
+  /** Bytes of the unfinished last line, kept as pieces so a long line costs one copy, not one per chunk. */
+  private pending: Uint8Array[] = [];
   private readonly strict = new TextDecoder('utf-8', { fatal: true, ignoreBOM: true });
   private readonly lenient = new TextDecoder('utf-8', { fatal: false, ignoreBOM: true });
 
@@ -26,19 +32,19 @@ export class ByteLineDecoder {
 
   push(chunk: Uint8Array): void {
     const lastNewline = chunk.lastIndexOf(LF);
+    // Pending pieces are copies: a streaming caller may reuse its buffer for the next chunk.
     if (lastNewline < 0) {
-      this.pending = bytesConcat(this.pending, chunk.slice());
+      this.pending.push(chunk.slice());
       return;
     }
-    const region = bytesConcat(this.pending, chunk.subarray(0, lastNewline + 1));
-    // Copied: a streaming caller may reuse its buffer for the next chunk.
-    this.pending = chunk.slice(lastNewline + 1);
+    const region = bytesConcat([...this.pending, chunk.subarray(0, lastNewline + 1)]);
+    this.pending = lastNewline + 1 < chunk.length ? [chunk.slice(lastNewline + 1)] : [];
     this.regionDecode(region);
   }
 
   end(): void {
-    if (this.pending.length > 0) this.regionDecode(this.pending);
-    this.pending = EMPTY;
+    if (this.pending.length > 0) this.regionDecode(bytesConcat(this.pending));
+    this.pending = [];
   }
 
   private regionDecode(region: Uint8Array): void {

@@ -51,7 +51,8 @@ class DelimitedParser implements TextParser {
   private delimiter: Delimiter | undefined;
   private scanner: RecordBoundaryScanner | null = null;
   private buffer = '';
-  private scanned = 0;
+  /** Text appended since the boundary scanner last ran. */
+  private unscanned = '';
   private bufferLine = 1;
   private linesPushed = 0;
   private heldCarriageReturn = false;
@@ -104,11 +105,13 @@ class DelimitedParser implements TextParser {
     if (undecodable) this.badLines.push(this.linesPushed + 1);
     this.linesPushed += newlinesCount(text);
     this.buffer += text;
+    this.unscanned += text;
     this.flush(false);
   }
 
   private flush(final: boolean): void {
     if (this.scanner === null) {
+      // Until the first line is complete nothing has been scanned, so `unscanned` is the whole buffer.
       const newline = this.buffer.indexOf('\n');
       if (newline < 0 && !final) return;
       this.delimiter ??= delimiterSniff(newline < 0 ? this.buffer : this.buffer.slice(0, newline));
@@ -119,12 +122,13 @@ class DelimitedParser implements TextParser {
       batch = this.buffer;
       this.buffer = '';
     } else {
-      const cut = this.scanner.scan(this.buffer, this.scanned);
-      this.scanned = this.buffer.length;
+      // Scan only the new text (the scanner keeps its state), so a long quoted field is not rescanned.
+      const cut = this.scanner.scan(this.unscanned, 0);
+      const scannedFrom = this.buffer.length - this.unscanned.length;
+      this.unscanned = '';
       if (cut < 0) return;
-      batch = this.buffer.slice(0, cut);
-      this.buffer = this.buffer.slice(cut);
-      this.scanned = this.buffer.length;
+      batch = this.buffer.slice(0, scannedFrom + cut);
+      this.buffer = this.buffer.slice(scannedFrom + cut);
     }
     if (batch.length > 0) this.batchParse(batch);
   }

@@ -3,7 +3,10 @@ import { delimitedRead, delimitedReader, delimitedWrite, FormatWriteError } from
 
 const WS = { tokeniser: { kind: 'whitespace' } } as const;
 
-describe('delimitedRead, RFC 4180 section 2 examples (restated from memory)', () => {
+// RFC 4180 ("Common Format and MIME Type for CSV Files"), section 2, rules 1-7 and their examples,
+// restated from memory: CRLF records, optional final line break, optional header, spaces kept,
+// optional quotes, quotes required around commas/quotes/line breaks, "" escaping a quote.
+describe('delimitedRead, RFC 4180 section 2 examples', () => {
   it('rule 1-2: records on separate lines ending in CRLF, the last line break optional', () => {
     const a = delimitedRead('aaa,bbb,ccc\r\nzzz,yyy,xxx\r\n', { column: 1, header: false, ...WS });
     const b = delimitedRead('aaa,bbb,ccc\r\nzzz,yyy,xxx', { column: 1, header: false, ...WS });
