@@ -50,7 +50,7 @@ function regionEquals(a: string, aStart: number, b: string, bStart: number, leng
  * Line parser for IOB/BIOES column files: `token … tag` lines (tab or spaces, tag in the last
  * column), a blank line after each utterance, `# key = value` comments before it. An utterance with
  * any error is left out whole; its errors name the offending lines. Tokens are placed as they are
- * read (in `# text`, found in order, or joined by single spaces), so no token string is kept longer.
+ * read: found in order in `# text`, or laid end to end one space apart when there is none.
  */
 class ColumnsParser implements LineParser {
   private readonly utterances: Utterance[] = [];
