@@ -31,11 +31,13 @@ function prepare(): { checkFile: string; cleanFile: string; tokens: number } {
   // Each utterance as one annotator labelled it, so the file carries their ~1% illegal transitions.
   const byId = new Map<string, Utterance>();
   for (const layer of corpus.layers) for (const u of layer.utterances) if (u.id !== undefined && !byId.has(u.id)) byId.set(u.id, u);
-  const labelled = corpus.truth.map((u) => byId.get(u.id ?? '') ?? u);
+  // Generator bookkeeping (template, annotator) is dropped: a user's file carries id, intent and text.
+  const plain = (u: Utterance): Utterance => ({ ...u, meta: {} });
+  const labelled = corpus.truth.map((u) => plain(byId.get(u.id ?? '') ?? u));
   const checkFile = `${out}/annotated.iob2`;
   const cleanFile = `${out}/truth.iob2`;
   writeFileSync(checkFile, columnsWrite(labelled));
-  writeFileSync(cleanFile, columnsWrite(corpus.truth));
+  writeFileSync(cleanFile, columnsWrite(corpus.truth.map(plain)));
   const tokens = labelled.reduce((n, u) => n + u.tokens.length, 0);
   console.log(`generated ${count} utterances, ${tokens} tokens in ${((performance.now() - started) / 1000).toFixed(1)} s (seed ${seed})`);
   return { checkFile, cleanFile, tokens };

@@ -1,4 +1,4 @@
-import { readFileSync, renameSync, writeFileSync } from 'node:fs';
+import { renameSync, writeFileSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 
 /** Streams the CLI writes to; injected so tests can capture them without spawning a process. */
@@ -11,17 +11,6 @@ export const processIo: CliIo = {
   out: (text) => process.stdout.write(text),
   err: (text) => process.stderr.write(text),
 };
-
-export type FileRead = { ok: true; bytes: Uint8Array } | { ok: false; message: string };
-
-export function fileRead(path: string): FileRead {
-  try {
-    return { ok: true, bytes: readFileSync(path) };
-  } catch (error) {
-    const code = (error as NodeJS.ErrnoException).code ?? 'error';
-    return { ok: false, message: `cannot read file (${code}): ${(error as Error).message}` };
-  }
-}
 
 /** Write through a temporary file and rename, so a failed run never leaves a half-written OUT. */
 export function fileWriteAtomic(path: string, content: string): void {

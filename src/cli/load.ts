@@ -1,6 +1,6 @@
-import type { Document, Scheme } from '../core/types';
-import { columnsRead, delimitedRead, formatDetect, jsonlRead, textRead } from '../core/formats';
-import { fileRead } from './io';
+import { closeSync, openSync, readSync } from 'node:fs';
+import { columnsReader, delimitedReader, type DocumentReader, formatDetect, jsonlReader, textReader } from '../core/formats';
+import type { Document, Scheme, Utterance } from '../core/types';
 
 export const INPUT_FORMATS = ['iob1', 'iob2', 'bioes', 'columns', 'jsonl', 'text', 'csv', 'tsv'] as const;
 export type InputFormat = (typeof INPUT_FORMATS)[number];
@@ -11,44 +11,68 @@ export interface LoadOptions {
   column?: string;
 }
 
-export type Loaded =
-  | { ok: true; format: string; document: Document }
-  | { ok: false; message: string };
+export type Loaded = { ok: true; format: string; document: Document } | { ok: false; message: string };
 
-const HEAD_BYTES = 64 * 1024;
+const CHUNK_BYTES = 1 << 20;
 
-/** Read a file in the format asked for, or the one its name and first bytes suggest. */
-export function documentLoad(path: string, options: LoadOptions): Loaded {
-  const read = fileRead(path);
-  if (!read.ok) return { ok: false, message: read.message };
-  const bytes = read.bytes;
+type ReaderMade = { ok: true; format: string; reader: DocumentReader } | { ok: false; message: string };
+
+function readerCreate(path: string, head: Uint8Array, options: LoadOptions, onUtterance?: (u: Utterance) => void): ReaderMade {
   let format: string = options.from ?? '';
   let scheme = options.scheme;
   if (format === 'iob1' || format === 'iob2' || format === 'bioes') {
     scheme = format;
     format = 'columns';
   }
-  if (format === '') {
-    const head = new TextDecoder('utf-8').decode(bytes.subarray(0, HEAD_BYTES));
-    format = formatDetect(path, head);
-  }
-  const schemeOption = scheme === undefined ? {} : { scheme };
+  if (format === '') format = formatDetect(path, new TextDecoder('utf-8').decode(head));
+  const common = { ...(scheme !== undefined && { scheme }), ...(onUtterance !== undefined && { onUtterance }) };
   switch (format) {
     case 'columns':
-      return { ok: true, format, document: columnsRead(bytes, schemeOption) };
+      return { ok: true, format, reader: columnsReader(common) };
     case 'jsonl':
-      return { ok: true, format, document: jsonlRead(bytes, schemeOption) };
+      return { ok: true, format, reader: jsonlReader(common) };
     case 'text':
-      return { ok: true, format, document: textRead(bytes) };
+      return { ok: true, format, reader: textReader(common) };
     case 'csv':
     case 'tsv': {
       if (options.column === undefined) {
         return { ok: false, message: `${format.toUpperCase()} input needs --column NAME (the column holding the text)` };
       }
       const delimiter = format === 'csv' ? ',' : '\t';
-      return { ok: true, format, document: delimitedRead(bytes, { column: options.column, delimiter, header: true }) };
+      return { ok: true, format, reader: delimitedReader({ ...common, column: options.column, delimiter, header: true }) };
     }
     default:
       return { ok: false, message: `unknown input format "${format}"` };
+  }
+}
+
+/**
+ * Read a file in the format asked for, or the one its name and first bytes suggest. The file is
+ * streamed in 1 MiB chunks; with `onUtterance` each utterance goes to the caller and is not kept.
+ */
+export function documentLoad(path: string, options: LoadOptions, onUtterance?: (u: Utterance) => void): Loaded {
+  let fd: number;
+  try {
+    fd = openSync(path, 'r');
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException).code ?? 'error';
+    return { ok: false, message: `cannot read file (${code}): ${(error as Error).message}` };
+  }
+  try {
+    // The decoder copies what it keeps between pushes, so one buffer serves every chunk.
+    const buffer = new Uint8Array(CHUNK_BYTES);
+    let length = readSync(fd, buffer, 0, CHUNK_BYTES, null);
+    const made = readerCreate(path, buffer.subarray(0, length), options, onUtterance);
+    if (!made.ok) return made;
+    while (length > 0) {
+      made.reader.push(buffer.subarray(0, length));
+      length = readSync(fd, buffer, 0, CHUNK_BYTES, null);
+    }
+    return { ok: true, format: made.format, document: made.reader.end() };
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException).code ?? 'error';
+    return { ok: false, message: `cannot read file (${code}): ${(error as Error).message}` };
+  } finally {
+    closeSync(fd);
   }
 }

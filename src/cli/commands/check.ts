@@ -1,5 +1,5 @@
 import { transitionsValidate } from '../../core/rules';
-import type { Document } from '../../core/types';
+import type { Scheme, Utterance } from '../../core/types';
 import { EXIT_BAD_INPUT, EXIT_OK, EXIT_VIOLATIONS } from '../exit-codes';
 import type { CliIo } from '../io';
 import { documentLoad, type LoadOptions } from '../load';
@@ -22,11 +22,13 @@ export interface CheckFileReport {
   errors: { line: number; message: string }[];
 }
 
+type Located = Pick<Utterance, 'tags' | 'tokenLines' | 'line'>;
+
 /** Violations located at file lines: the later token of a transition, or the last token of an open span. */
-export function violationsLocate(document: Document): CheckViolation[] {
+export function violationsLocate(utterances: readonly Located[], scheme: Scheme): CheckViolation[] {
   const out: CheckViolation[] = [];
-  for (const utterance of document.utterances) {
-    for (const v of transitionsValidate(utterance.tags, document.scheme)) {
+  for (const utterance of utterances) {
+    for (const v of transitionsValidate(utterance.tags, scheme)) {
       const line = utterance.tokenLines?.[v.index] ?? utterance.line ?? 0;
       out.push({ line, tag: v.tag, previous: v.previous, rule: v.rule, message: v.message });
     }
@@ -34,23 +36,32 @@ export function violationsLocate(document: Document): CheckViolation[] {
   return out;
 }
 
+function schemeGiven(options: LoadOptions): Scheme | undefined {
+  const from = options.from;
+  return from === 'iob1' || from === 'iob2' || from === 'bioes' ? from : options.scheme;
+}
+
 export function checkFile(file: string, options: LoadOptions): CheckFileReport {
-  const loaded = documentLoad(file, options);
+  // With the scheme known up front each utterance is validated as it streams by and nothing is kept;
+  // otherwise tags and lines are kept until the scheme is detected from the whole file.
+  const known = schemeGiven(options);
+  const kept: Located[] = [];
+  const violations: CheckViolation[] = [];
+  let utterances = 0;
+  let tokens = 0;
+  const loaded = documentLoad(file, options, ({ tags, tokenLines, line, tokens: t }) => {
+    utterances++;
+    tokens += t.length;
+    const located = { tags, ...(tokenLines !== undefined && { tokenLines }), ...(line !== undefined && { line }) };
+    if (known === undefined) kept.push(located);
+    else violations.push(...violationsLocate([located], known));
+  });
   if (!loaded.ok) {
     return { file, format: null, scheme: null, utterances: 0, tokens: 0, violations: [], errors: [{ line: 0, message: loaded.message }] };
   }
   const { document, format } = loaded;
-  let tokens = 0;
-  for (const utterance of document.utterances) tokens += utterance.tokens.length;
-  return {
-    file,
-    format,
-    scheme: document.scheme,
-    utterances: document.utterances.length,
-    tokens,
-    violations: violationsLocate(document),
-    errors: document.errors,
-  };
+  if (known === undefined) violations.push(...violationsLocate(kept, document.scheme));
+  return { file, format, scheme: document.scheme, utterances, tokens, violations, errors: document.errors };
 }
 
 export function checkExitCode(reports: readonly CheckFileReport[]): number {

@@ -35,7 +35,7 @@ export function convertRun(input: string, options: ConvertOptions, io: CliIo): n
     io.err(`${input}: ${document.errors.length} malformed line(s); nothing written\n`);
     return EXIT_BAD_INPUT;
   }
-  const violations = violationsLocate(document);
+  const violations = violationsLocate(document.utterances, document.scheme);
   if (violations.length > 0) {
     io.err(
       `${input}: ${violations.length} illegal transition(s) read as the CoNLL-2000 evaluation does ` +

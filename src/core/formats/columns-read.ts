@@ -9,11 +9,13 @@ import {
   type DocumentReader,
   type LineParser,
   type ReadInput,
+  type UtteranceSinkOption,
+  utteranceSink,
 } from './reader';
 import { SchemeEvidence } from './scheme-evidence';
 import { TagTable } from './tag-table';
 
-export interface ColumnsReadOptions {
+export interface ColumnsReadOptions extends UtteranceSinkOption {
   /** The file's scheme; detected from the tags when absent (see `SchemeEvidence`). */
   scheme?: Scheme;
 }
@@ -40,12 +42,6 @@ function tagInvalidMessage(tag: string): string {
   return `tag ${JSON.stringify(tag)} is not a valid tag: expected O, or B-, I-, E- or S- followed by a slot name`;
 }
 
-function regionEquals(a: string, aStart: number, b: string, bStart: number, length: number): boolean {
-  if (aStart + length > a.length) return false;
-  for (let i = 0; i < length; i++) if (a.charCodeAt(aStart + i) !== b.charCodeAt(bStart + i)) return false;
-  return true;
-}
-
 /**
  * Line parser for IOB/BIOES column files: `token … tag` lines (tab or spaces, tag in the last
  * column), a blank line after each utterance, `# key = value` comments before it. An utterance with
@@ -58,6 +54,7 @@ class ColumnsParser implements LineParser {
   private readonly tagTable = new TagTable();
   private readonly evidence = new SchemeEvidence();
   private readonly scheme: Scheme | undefined;
+  private readonly emit: (utterance: Utterance) => void;
 
   // The utterance being read; `blockLine` is 0 between utterances.
   private blockLine = 0;
@@ -79,6 +76,7 @@ class ColumnsParser implements LineParser {
 
   constructor(options: ColumnsReadOptions) {
     this.scheme = options.scheme;
+    this.emit = utteranceSink(options, this.utterances);
   }
 
   lineAdd(text: string, start: number, end: number, line: number): void {
@@ -92,8 +90,18 @@ class ColumnsParser implements LineParser {
       this.commentAdd(text, start, end, line);
       return;
     }
-    let firstEnd = first + 1;
-    while (firstEnd < end && !charIsSeparator(text.charCodeAt(firstEnd))) firstEnd++;
+    // Scan the token and, when a `# text` is being followed, compare it with the text in the same
+    // pass: this loop runs over every character of a million-token file.
+    const target = this.textLost ? undefined : this.text;
+    let at = this.offset;
+    if (target !== undefined) while (target.charCodeAt(at) === SPACE) at++;
+    let matched = target !== undefined;
+    let firstEnd = first;
+    for (; firstEnd < end; firstEnd++) {
+      const code = text.charCodeAt(firstEnd);
+      if (code === SPACE || code === TAB) break;
+      if (matched && target?.charCodeAt(at + firstEnd - first) !== code) matched = false;
+    }
     if (firstEnd - first === DOCSTART.length && text.startsWith(DOCSTART, first)) return;
     if (this.blockLine === 0) this.blockStart(line);
     this.tokenLines.push(line);
@@ -121,7 +129,7 @@ class ColumnsParser implements LineParser {
       this.tokens.push({ start: this.offset, end: this.offset + firstEnd - first });
       this.offset += firstEnd - first + 1;
     } else {
-      this.tokenLocate(text, first, firstEnd, line);
+      this.tokenLocate(text, first, firstEnd, line, matched ? at : -1);
     }
   }
 
@@ -137,15 +145,17 @@ class ColumnsParser implements LineParser {
     return { scheme, utterances: this.utterances, errors: errorsSort(this.errors) };
   }
 
-  private tokenLocate(line: string, first: number, firstEnd: number, lineNumber: number): void {
+  /**
+   * `matchedAt` is where the token already matched the text right after the previous token and some
+   * spaces (-1 if it did not). A token never starts with a space, so such a match is also the first
+   * one `indexOf` would find.
+   */
+  private tokenLocate(line: string, first: number, firstEnd: number, lineNumber: number, matchedAt: number): void {
     const length = firstEnd - first;
     const target = this.text;
     if (target === undefined || this.textLost) return;
-    // Fast path: the token follows the previous one after some spaces. A token never starts with a
-    // space, so a match there is also the first match `indexOf` would find.
-    let at = this.offset;
-    while (target.charCodeAt(at) === SPACE) at++;
-    if (!regionEquals(target, at, line, first, length)) {
+    let at = matchedAt;
+    if (at < 0) {
       const token = line.slice(first, firstEnd);
       at = target.indexOf(token, this.offset);
       if (at < 0) {
@@ -231,7 +241,7 @@ class ColumnsParser implements LineParser {
     };
     if (this.id !== undefined) utterance.id = this.id;
     if (this.intent !== undefined) utterance.intent = this.intent;
-    this.utterances.push(utterance);
+    this.emit(utterance);
   }
 }
 

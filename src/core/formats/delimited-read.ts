@@ -3,11 +3,11 @@ import { tokeniserCreate, type TokeniserSpec } from '../tokenise';
 import type { Document, ReadError, Scheme, Utterance } from '../types';
 import { RecordBoundaryScanner } from './delimited-boundary';
 import { RowReader, type ColumnRef } from './delimited-rows';
-import { documentRead, readerFromTextParser, type DocumentReader, type ReadInput, type TextParser } from './reader';
+import { documentRead, readerFromTextParser, type DocumentReader, type ReadInput, type TextParser, type UtteranceSinkOption, utteranceSink } from './reader';
 
 export type Delimiter = ',' | '\t';
 
-export interface DelimitedReadOptions {
+export interface DelimitedReadOptions extends UtteranceSinkOption {
   /** The text column: a header name, or a 0-based index. */
   column: ColumnRef;
   /** Default: sniffed from the first line (tab when it has tabs and no more commas than tabs). */
@@ -63,7 +63,7 @@ class DelimitedParser implements TextParser {
     const header = options.header ?? typeof options.column === 'string';
     const columns = { column: options.column, header, ...optionalColumns(options) };
     const tokenise = tokeniserCreate(options.tokeniser ?? { kind: 'words' });
-    this.rows = new RowReader(columns, tokenise, this.badLines, this.utterances, this.errors);
+    this.rows = new RowReader(columns, tokenise, this.badLines, utteranceSink(options, this.utterances), this.errors);
     this.scheme = options.scheme ?? 'iob2';
   }
 

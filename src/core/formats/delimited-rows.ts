@@ -47,7 +47,7 @@ export class RowReader {
     private readonly columns: RowColumns,
     private readonly tokenise: Tokeniser,
     private readonly badLines: readonly number[],
-    private readonly utterances: Utterance[],
+    private readonly emit: (utterance: Utterance) => void,
     private readonly errors: ReadError[],
   ) {}
 
@@ -149,6 +149,6 @@ export class RowReader {
     const intent = resolved.intent === undefined ? '' : (fields[resolved.intent] ?? '');
     if (id !== '') utterance.id = id;
     if (intent !== '') utterance.intent = intent;
-    this.utterances.push(utterance);
+    this.emit(utterance);
   }
 }

@@ -8,5 +8,5 @@ export * from './detect';
 export * from './errors';
 export * from './jsonl-read';
 export * from './jsonl-write';
-export { documentRead, type DocumentReader, type ReadInput } from './reader';
+export { documentRead, type DocumentReader, type ReadInput, type UtteranceSinkOption } from './reader';
 export * from './text';

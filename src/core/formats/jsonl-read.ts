@@ -1,9 +1,9 @@
 import { tokeniserCreate, type Tokeniser, type TokeniserSpec } from '../tokenise';
 import type { Document, ReadError, Scheme, Utterance } from '../types';
 import { jsonlRecordParse } from './jsonl-record';
-import { documentRead, readerFromLineParser, UNDECODABLE_MESSAGE, type DocumentReader, type LineParser, type ReadInput } from './reader';
+import { documentRead, readerFromLineParser, UNDECODABLE_MESSAGE, type DocumentReader, type LineParser, type ReadInput, type UtteranceSinkOption, utteranceSink } from './reader';
 
-export interface JsonlReadOptions {
+export interface JsonlReadOptions extends UtteranceSinkOption {
   /** Tokenises records that carry no "tokens" (default: words). */
   tokeniser?: TokeniserSpec;
   /** Scheme of the tags made from "spans" (default: iob2). */
@@ -17,10 +17,12 @@ class JsonlParser implements LineParser {
   private readonly errors: ReadError[] = [];
   private readonly tokenise: Tokeniser;
   private readonly scheme: Scheme;
+  private readonly emit: (utterance: Utterance) => void;
 
   constructor(options: JsonlReadOptions) {
     this.tokenise = tokeniserCreate(options.tokeniser ?? { kind: 'words' });
     this.scheme = options.scheme ?? 'iob2';
+    this.emit = utteranceSink(options, this.utterances);
   }
 
   lineAdd(text: string, start: number, end: number, line: number): void {
@@ -32,7 +34,7 @@ class JsonlParser implements LineParser {
       return;
     }
     parsed.line = line;
-    this.utterances.push(parsed);
+    this.emit(parsed);
   }
 
   lineUndecodable(line: number): void {

@@ -1,4 +1,4 @@
-import type { Document, ReadError } from '../types';
+import type { Document, ReadError, Utterance } from '../types';
 import { ByteLineDecoder } from './decode';
 import { LineSplitter, type LineSink, type TextTarget } from './lines';
 
@@ -66,6 +66,20 @@ export function documentRead(reader: DocumentReader, input: ReadInput): Document
 /** Errors found in a later pass (scheme checks at the end) must still come out in file order. */
 export function errorsSort(errors: ReadError[]): ReadError[] {
   return errors.sort((a, b) => a.line - b.line);
+}
+
+/**
+ * Streaming consumers (the CLI's `check`, the import worker) take each good utterance as it is read
+ * instead of keeping them all: the document then comes back with no utterances, only errors, and
+ * memory stays flat however big the file.
+ */
+export interface UtteranceSinkOption {
+  onUtterance?: (utterance: Utterance) => void;
+}
+
+/** The sink a parser emits to: the caller's, or one collecting into `store`. */
+export function utteranceSink(option: UtteranceSinkOption, store: Utterance[]): (utterance: Utterance) => void {
+  return option.onUtterance ?? ((utterance) => store.push(utterance));
 }
 
 export const UNDECODABLE_MESSAGE = 'undecodable bytes: this line is not valid UTF-8';

@@ -1,9 +1,9 @@
 import { tokeniserCreate, type Tokeniser, type TokeniserSpec } from '../tokenise';
 import type { Document, ReadError, Scheme, Utterance } from '../types';
 import { FormatWriteError, textHasLineBreak } from './errors';
-import { documentRead, readerFromLineParser, UNDECODABLE_MESSAGE, type DocumentReader, type LineParser, type ReadInput } from './reader';
+import { documentRead, readerFromLineParser, UNDECODABLE_MESSAGE, type DocumentReader, type LineParser, type ReadInput, type UtteranceSinkOption, utteranceSink } from './reader';
 
-export interface TextReadOptions {
+export interface TextReadOptions extends UtteranceSinkOption {
   /** Default: words. */
   tokeniser?: TokeniserSpec;
   /** The scheme recorded on the document (every tag is O, so it only matters downstream). Default: iob2. */
@@ -19,17 +19,19 @@ class TextParser implements LineParser {
   private readonly errors: ReadError[] = [];
   private readonly tokenise: Tokeniser;
   private readonly scheme: Scheme;
+  private readonly emit: (utterance: Utterance) => void;
 
   constructor(options: TextReadOptions) {
     this.tokenise = tokeniserCreate(options.tokeniser ?? { kind: 'words' });
     this.scheme = options.scheme ?? 'iob2';
+    this.emit = utteranceSink(options, this.utterances);
   }
 
   lineAdd(source: string, start: number, end: number, line: number): void {
     const text = source.slice(start, end);
     if (lineIsBlank(text)) return;
     const tokens = this.tokenise(text);
-    this.utterances.push({ text, tokens, tags: new Array<string>(tokens.length).fill('O'), meta: {}, line });
+    this.emit({ text, tokens, tags: new Array<string>(tokens.length).fill('O'), meta: {}, line });
   }
 
   lineUndecodable(line: number): void {
