@@ -24,15 +24,17 @@ export interface CheckFileReport {
 
 type Located = Pick<Utterance, 'tags' | 'tokenLines' | 'line'>;
 
+function violationsOfUtterance(utterance: Located, scheme: Scheme, out: CheckViolation[]): void {
+  for (const v of transitionsValidate(utterance.tags, scheme)) {
+    const line = utterance.tokenLines?.[v.index] ?? utterance.line ?? 0;
+    out.push({ line, tag: v.tag, previous: v.previous, rule: v.rule, message: v.message });
+  }
+}
+
 /** Violations located at file lines: the later token of a transition, or the last token of an open span. */
 export function violationsLocate(utterances: readonly Located[], scheme: Scheme): CheckViolation[] {
   const out: CheckViolation[] = [];
-  for (const utterance of utterances) {
-    for (const v of transitionsValidate(utterance.tags, scheme)) {
-      const line = utterance.tokenLines?.[v.index] ?? utterance.line ?? 0;
-      out.push({ line, tag: v.tag, previous: v.previous, rule: v.rule, message: v.message });
-    }
-  }
+  for (const utterance of utterances) violationsOfUtterance(utterance, scheme, out);
   return out;
 }
 
@@ -49,18 +51,17 @@ export function checkFile(file: string, options: LoadOptions): CheckFileReport {
   const violations: CheckViolation[] = [];
   let utterances = 0;
   let tokens = 0;
-  const loaded = documentLoad(file, options, ({ tags, tokenLines, line, tokens: t }) => {
+  const loaded = documentLoad(file, options, (utterance) => {
     utterances++;
-    tokens += t.length;
-    const located = { tags, ...(tokenLines !== undefined && { tokenLines }), ...(line !== undefined && { line }) };
-    if (known === undefined) kept.push(located);
-    else violations.push(...violationsLocate([located], known));
+    tokens += utterance.tokens.length;
+    if (known !== undefined) violationsOfUtterance(utterance, known, violations);
+    else kept.push({ tags: utterance.tags, tokenLines: utterance.tokenLines ?? [], line: utterance.line ?? 0 });
   });
   if (!loaded.ok) {
     return { file, format: null, scheme: null, utterances: 0, tokens: 0, violations: [], errors: [{ line: 0, message: loaded.message }] };
   }
   const { document, format } = loaded;
-  if (known === undefined) violations.push(...violationsLocate(kept, document.scheme));
+  if (known === undefined) for (const u of kept) violationsOfUtterance(u, document.scheme, violations);
   return { file, format, scheme: document.scheme, utterances, tokens, violations, errors: document.errors };
 }
 
