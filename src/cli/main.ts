@@ -4,6 +4,7 @@ import { MASK_KINDS, type MaskKind } from '../core/privacy';
 import { PRODUCT_NAME } from '../core/version';
 import { checkRun } from './commands/check';
 import { convertRun, OUTPUT_FORMATS, type OutputFormat } from './commands/convert';
+import { rulesRun } from './commands/rules';
 import { EXIT_BAD_INPUT, EXIT_OK } from './exit-codes';
 import { type CliIo, processIo } from './io';
 import { INPUT_FORMATS, type InputFormat } from './load';
@@ -21,6 +22,8 @@ Usage:
       --mask hides digits and/or e-mail addresses (same length, so labels stay aligned).
       FORMAT: ${INPUT_FORMATS.join(', ')} (detected from name and content when absent).
       CSV/TSV input also needs --column NAME.
+  slotsmith rules [--scheme iob1|iob2|bioes] [--json]
+      List the rule ids that check reports, with what each means.
   slotsmith --help | --version
 `;
 
@@ -87,6 +90,9 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
         const mask = values.mask === undefined ? [] : maskKindsParse(values.mask);
         return convertRun(files[0] as string, { ...load, to, ...output, mask }, io);
       }
+      case 'rules':
+        if (files.length > 0) throw new UsageError('rules takes no files');
+        return rulesRun({ ...(scheme && { scheme }), json: values.json }, io);
       default:
         throw new UsageError(`unknown command "${command}"`);
     }
