@@ -9,6 +9,7 @@ import { columnsWrite } from '../src/core/formats';
 import type { Utterance } from '../src/core/types';
 import { corpusGenerate } from '../scripts/corpus/generate';
 import { cliBuild } from '../scripts/build-cli.mjs';
+import { agreeBench } from './agree';
 import { measureInterleaved, runCapture } from './measure';
 
 const root = fileURLToPath(new URL('..', import.meta.url));
@@ -94,6 +95,8 @@ async function main(): Promise<void> {
   const identical = readFileSync(back).equals(readFileSync(cleanFile));
   console.log(`  IOB2 → JSONL → IOB2 byte-identical: ${identical ? 'yes' : 'NO'}`);
   if (!identical) process.exitCode = 1;
+
+  agreeBench({ root, out, count, repeats, seed });
 }
 
 await main();

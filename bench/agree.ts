@@ -1,0 +1,65 @@
+/**
+ * The agreement part of `npm run bench`: `slotsmith agree` on a seeded pair of ~100k-utterance files
+ * as a whole process, against a Python pipeline (parse both files, scikit-learn's cohen_kappa_score on
+ * tags and slot types), plus in-process timings of the computation after parsing.
+ */
+import { readFileSync, writeFileSync } from 'node:fs';
+import { agreementCompute, layersAlign } from '../src/core/agreement';
+import { columnsRead, columnsWrite } from '../src/core/formats';
+import { tagsConvert } from '../src/core/schemes';
+import type { Utterance } from '../src/core/types';
+import { corpusGenerate } from '../scripts/corpus/generate';
+import { measureInterleaved, runCapture } from './measure';
+
+function median(values: number[]): number {
+  const sorted = [...values].sort((a, b) => a - b);
+  return sorted[sorted.length >> 1] ?? 0;
+}
+
+function timeMs(run: () => void): number {
+  const started = performance.now();
+  run();
+  return performance.now() - started;
+}
+
+export function agreeBench(options: { root: string; out: string; count: number; repeats: number; seed: number }): void {
+  const { root, out, count, repeats, seed } = options;
+  // Both simulated annotators label every utterance, so the pair covers the whole corpus.
+  const corpus = corpusGenerate({ seed, count, overlapShare: 1 });
+  // Legal IOB2 only, so scikit-learn on the raw file tags and slotsmith (which reads illegal
+  // transitions the CoNLL-2000 way before comparing) must give identical figures.
+  const plain = (u: Utterance): Utterance => ({ ...u, tags: tagsConvert(u.tags, 'iob2'), meta: {} });
+  const [a, b] = corpus.layers.slice(0, 2).map((layer, i) => {
+    const file = `${out}/pair-${i === 0 ? 'a' : 'b'}.iob2`;
+    writeFileSync(file, columnsWrite(layer.utterances.map(plain)));
+    return file;
+  }) as [string, string];
+
+  const python = ['/usr/bin/python3', `${root}/bench/python/agree_baseline.py`, a, b];
+  const cli = ['node', `${root}/bin/slotsmith.mjs`, 'agree', '--json', a, b];
+  const theirs = JSON.parse(runCapture(python).stdout) as { tokens: number; tag: number; slot: number };
+  const oursRun = runCapture(cli);
+  const ours = JSON.parse(oursRun.stdout) as { tokens: number; kappa: { tag: number; slot: number } };
+  console.log(`\n== agree vs Python + scikit-learn on two files of ${count} utterances, ${theirs.tokens} tokens, ${repeats} interleaved runs, medians`);
+  console.log(
+    `  kappa tag: slotsmith ${ours.kappa.tag} / scikit-learn ${theirs.tag}; ` +
+      `slot: ${ours.kappa.slot} / ${theirs.slot} (|Δ| ≤ ${Math.max(Math.abs(ours.kappa.tag - theirs.tag), Math.abs(ours.kappa.slot - theirs.slot)).toExponential(1)})`,
+  );
+  const m = measureInterleaved({ python, agree: cli, 'agree --bootstrap 0': [...cli, '--bootstrap', '0'] }, repeats);
+  for (const [label, r] of Object.entries(m)) {
+    console.log(`  ${label.padEnd(34)} ${r.medianSeconds.toFixed(3).padStart(8)} s ${r.peakRssMb?.toFixed(0).padStart(6) ?? ''} MB`);
+  }
+  const ratio = (m.agree?.medianSeconds ?? 0) / (m.python?.medianSeconds ?? 1);
+  console.log(`  ratio agree/python: ${ratio.toFixed(3)}× (target ≤ 0.1×: ${ratio <= 0.1 ? 'met' : 'NOT met'}; agree includes 1,000 bootstrap resamples)`);
+
+  // In-process: the computation alone, after both files are parsed and aligned.
+  const layers = [a, b].map((file, i) => ({ name: `layer-${i}`, ...columnsRead(readFileSync(file)) }));
+  const aligned = layersAlign(layers.map((l) => ({ name: l.name, scheme: l.scheme, utterances: l.utterances })));
+  if (!aligned.ok) throw new Error('bench pair did not align');
+  const computeRuns: number[] = [];
+  for (let r = 0; r < Math.max(repeats, 5); r++) computeRuns.push(timeMs(() => agreementCompute(aligned.corpus, { bootstrap: 0 })));
+  const bootstrapRuns: number[] = [];
+  for (let r = 0; r < 3; r++) bootstrapRuns.push(timeMs(() => agreementCompute(aligned.corpus, { bootstrap: 1000 })));
+  const alignMs = timeMs(() => layersAlign(layers.map((l) => ({ name: l.name, scheme: l.scheme, utterances: l.utterances }))));
+  console.log(`  in-process, after parsing: align ${alignMs.toFixed(0)} ms; agreement (all figures, no bootstrap) median ${median(computeRuns).toFixed(0)} ms (target ≤ 150 ms); with 1,000 bootstrap resamples median ${median(bootstrapRuns).toFixed(0)} ms`);
+}
