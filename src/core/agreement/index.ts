@@ -1,0 +1,25 @@
+export { layersAlign } from './align';
+export { mulberry32, percentileInterval, quantileSorted, type Interval } from './bootstrap';
+export {
+  alphaFromCounts,
+  fleissFromCounts,
+  kappaFromCounts,
+  REASON_EMPTY,
+  REASON_EXPECTED_ONE,
+  REASON_NO_PAIRABLE,
+  type AlphaFigure,
+  type KappaFigure,
+} from './kappa';
+export { LANDIS_KOCH_CAUTION, landisKoch, type LandisKochBand } from './landis-koch';
+export { alphaSlot, fleissSlot, pairSlotKappa, pairwiseSlotKappa, type FleissFigure, type PairwiseKappa } from './multi';
+export {
+  agreementCompute,
+  REASON_NO_SPANS,
+  type AgreementIntervals,
+  type AgreementOptions,
+  type AgreementReport,
+  type Disagreement,
+  type SlotFigures,
+  type SpanFigures,
+} from './report';
+export * from './types';
