@@ -49,8 +49,15 @@ function row(label: string, seconds: number, rssMb: number | null, extra = ''): 
   return `  ${label.padEnd(34)} ${seconds.toFixed(3).padStart(8)} s ${rss} ${extra}`;
 }
 
+const only = process.env.BENCH_ONLY; // 'check' | 'convert' | 'agree': run one part only
+
 async function main(): Promise<void> {
   await cliBuild();
+  if (only === 'agree') {
+    mkdirSync(out, { recursive: true });
+    agreeBench({ root, out, count, repeats, seed });
+    return;
+  }
   const { checkFile, cleanFile, tokens } = prepare();
   const cli = ['node', `${root}/bin/slotsmith.mjs`];
 
