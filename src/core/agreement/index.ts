@@ -1,5 +1,13 @@
 export { layersAlign } from './align';
-export { mulberry32, percentileInterval, quantileSorted, type Interval } from './bootstrap';
+export {
+  bootstrapRange,
+  mulberry32,
+  percentileInterval,
+  quantileSorted,
+  resampleValuesJoin,
+  type Interval,
+  type ResampleValues,
+} from './bootstrap';
 export {
   alphaFromCounts,
   fleissFromCounts,
@@ -14,10 +22,14 @@ export { LANDIS_KOCH_CAUTION, landisKoch, type LandisKochBand } from './landis-k
 export { alphaSlot, fleissSlot, pairSlotKappa, pairwiseSlotKappa, type FleissFigure, type PairwiseKappa } from './multi';
 export {
   agreementCompute,
+  agreementIntervalsAdd,
+  agreementPrepare,
   REASON_NO_SPANS,
   type AgreementIntervals,
   type AgreementOptions,
+  type AgreementPending,
   type AgreementReport,
+  type BootstrapJob,
   type Disagreement,
   type SlotFigures,
   type SpanFigures,

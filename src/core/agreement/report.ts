@@ -1,8 +1,16 @@
-import { bootstrapFigures, percentileInterval, REASON_POINT_UNDEFINED, type FigureName, type Interval } from './bootstrap';
+import {
+  bootstrapRange,
+  percentileInterval,
+  REASON_POINT_UNDEFINED,
+  resampleDefined,
+  type FigureName,
+  type Interval,
+  type ResampleValues,
+} from './bootstrap';
 import { kappaFromCounts, type AlphaFigure, type KappaFigure } from './kappa';
 import { alphaSlot, fleissSlot, pairwiseSlotKappa, type FleissFigure, type PairwiseKappa } from './multi';
-import { pairCount, pairTotals, type PairCounts } from './pair-counts';
-import { f1FromCounts, pairFiguresFromTotals, type PairFigures } from './totals';
+import { pairCount, pairTotals, type PairCounts, type UtteranceRows } from './pair-counts';
+import { f1FromCounts, pairFiguresFromTotals, type PairFigures, type TotalsLayout } from './totals';
 import { tagCodeSlot, type AlignedCorpus } from './types';
 
 export interface AgreementOptions {
@@ -161,16 +169,34 @@ function disagreementsList(corpus: AlignedCorpus, counts: PairCounts, a: number,
   return { total, items };
 }
 
-function intervalsCompute(counts: PairCounts, point: PairFigures, hasIntent: boolean, resamples: number, seed: number, confidence: number): AgreementIntervals {
-  const rows = counts.rows;
-  if (rows === null) throw new Error('bootstrap rows missing');
-  const { values, defined } = bootstrapFigures(rows, counts.layout, resamples, seed);
-  const interval = (name: FigureName, pointValue: number | null): Interval =>
-    pointValue === null ? { low: null, high: null, resamples: 0, reason: REASON_POINT_UNDEFINED } : percentileInterval(values[name], defined[name], confidence);
+/** The bootstrap still to run: plain typed arrays and numbers, so it can be cloned into a worker. */
+export interface BootstrapJob {
+  rows: UtteranceRows;
+  layout: TotalsLayout;
+  resamples: number;
+  seed: number;
+}
+
+/** A report whose intervals wait for the bootstrap (`job` null when none is asked for). */
+export interface AgreementPending {
+  report: AgreementReport;
+  job: BootstrapJob | null;
+  point: PairFigures;
+  hasIntent: boolean;
+  confidence: number;
+}
+
+function intervalsFromValues(pending: AgreementPending, job: BootstrapJob, values: ResampleValues): AgreementIntervals {
+  const { point, hasIntent, confidence } = pending;
+  const interval = (name: FigureName, pointValue: number | null): Interval => {
+    if (pointValue === null) return { low: null, high: null, resamples: 0, reason: REASON_POINT_UNDEFINED };
+    const { values: kept, defined } = resampleDefined(values[name]);
+    return percentileInterval(kept, defined, confidence);
+  };
   return {
     confidence,
-    resamples,
-    seed,
+    resamples: job.resamples,
+    seed: job.seed,
     method: 'percentile',
     unit: 'utterance',
     kappaTag: interval('tag', point.tag.value),
@@ -198,8 +224,11 @@ function optionsCheck(corpus: AlignedCorpus, options: AgreementOptions): { a: nu
   return { a, b, resamples, seed: options.seed ?? 1, confidence, limit };
 }
 
-/** Agreement figures for an aligned corpus: see `AgreementReport` for what each one is. */
-export function agreementCompute(corpus: AlignedCorpus, options: AgreementOptions = {}): AgreementReport {
+/**
+ * Every figure but the intervals, plus the bootstrap job that yields them: for callers that run the
+ * resamples elsewhere (in ranges, e.g. on worker threads) and then call `agreementIntervalsAdd`.
+ */
+export function agreementPrepare(corpus: AlignedCorpus, options: AgreementOptions = {}): AgreementPending {
   const { a, b, resamples, seed, confidence, limit } = optionsCheck(corpus, options);
   const counts = pairCount(corpus, a, b, resamples > 0);
   const point = pairFiguresFromTotals(pairTotals(counts), counts.layout);
@@ -227,12 +256,32 @@ export function agreementCompute(corpus: AlignedCorpus, options: AgreementOption
     perSlot: perSlotFigures(corpus, counts, confusion),
     confusion: { labels: confusion.labels, counts: confusion.counts },
     disagreements: disagreementsList(corpus, counts, a, b, limit),
-    ci: resamples > 0 ? intervalsCompute(counts, point, hasIntent, resamples, seed, confidence) : null,
+    ci: null,
   };
   if (corpus.layers.length >= 3) {
     report.fleissKappa = { slot: fleissSlot(corpus) };
     report.alpha = { slot: alphaSlot(corpus) };
     report.pairwise = pairwiseSlotKappa(corpus);
   }
+  let job: BootstrapJob | null = null;
+  if (resamples > 0) {
+    if (counts.rows === null) throw new Error('bootstrap rows missing');
+    job = { rows: counts.rows, layout: counts.layout, resamples, seed };
+  }
+  return { report, job, point, hasIntent, confidence };
+}
+
+/** The pending report with its intervals, from the values of all `job.resamples` resamples in order. */
+export function agreementIntervalsAdd(pending: AgreementPending, values: ResampleValues): AgreementReport {
+  const { report, job } = pending;
+  if (job !== null) report.ci = intervalsFromValues(pending, job, values);
   return report;
+}
+
+/** Agreement figures for an aligned corpus: see `AgreementReport` for what each one is. */
+export function agreementCompute(corpus: AlignedCorpus, options: AgreementOptions = {}): AgreementReport {
+  const pending = agreementPrepare(corpus, options);
+  const { job } = pending;
+  if (job === null) return pending.report;
+  return agreementIntervalsAdd(pending, bootstrapRange(job.rows, job.layout, job.seed, 0, job.resamples));
 }
