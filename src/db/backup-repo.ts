@@ -1,0 +1,140 @@
+/**
+ * Backup and restore of whole projects through the core codec (src/core/backup). Backups refer to
+ * utterances by seq and batches by position, so a restored project backs up to the same bytes.
+ */
+import Dexie from 'dexie';
+import {
+  backupAnnotatorEncode,
+  backupBatchEncode,
+  backupDecode,
+  backupHeaderEncode,
+  backupHistoryEncode,
+  backupLayerEncode,
+  backupProjectEncode,
+  backupUtteranceEncode,
+  type BackupUtterance,
+  type BatchInfo,
+} from '../core/backup';
+import type { ReadError } from '../core/types';
+import { BatchStateError, dbWrite, RecordMissingError } from './errors';
+import { layerContent } from './layer-repo';
+import { dbTablesAll, type BatchRow, type HistoryRow, type LayerRow, type SlotsmithDb, type UtteranceRow } from './schema';
+
+export interface BackupFile {
+  fileName: string;
+  /** Lines of the file, each ending in LF: hand them to `new Blob(parts)` rather than joining. */
+  parts: string[];
+}
+
+export type BackupRestoreResult = { ok: true; projectId: number; warnings: ReadError[] } | { ok: false; errors: ReadError[] };
+
+function batchInfo(row: BatchRow): BatchInfo {
+  const { id: _id, projectId: _projectId, ...info } = row;
+  return info;
+}
+
+function utteranceInfo(row: UtteranceRow, batchPosition: Map<number, number>): BackupUtterance {
+  const u: BackupUtterance = { seq: row.seq, text: row.text, tokens: Array.from(row.tokens), meta: row.meta };
+  if (row.externalId !== undefined) u.externalId = row.externalId;
+  if (row.intentHint !== undefined) u.intentHint = row.intentHint;
+  const batch = row.source.batchId === undefined ? undefined : batchPosition.get(row.source.batchId);
+  if (batch !== undefined) u.batch = batch;
+  if (row.source.line !== undefined) u.line = row.source.line;
+  return u;
+}
+
+function fileNameOf(name: string, now: number): string {
+  // Characters that are unsafe in file names on common systems (common practice, no source).
+  const safe = name.replace(/[\p{Cc}<>:"/\\|?*]+/gu, '_').trim() || 'project';
+  return `${safe}-${new Date(now).toISOString().slice(0, 10)}.slotsmith-backup.jsonl`;
+}
+
+/** A consistent snapshot of the project (one read transaction), encoded line by line. */
+export async function backupMake(db: SlotsmithDb, projectId: number): Promise<BackupFile> {
+  const { minKey, maxKey } = Dexie;
+  return db.transaction('r', dbTablesAll(db), async () => {
+    const project = await db.projects.get(projectId);
+    if (project === undefined) throw new RecordMissingError('project', projectId);
+    const annotators = await db.annotators.where('[projectId+id]').between([projectId, minKey], [projectId, maxKey]).toArray();
+    const batches = await db.batches.where('projectId').equals(projectId).sortBy('id');
+    if (batches.some((b) => b.state === 'importing')) throw new BatchStateError('An import into this project is still running; back up when it has finished.');
+    const batchPosition = new Map(batches.map((b, i) => [b.id, i + 1]));
+
+    const body: string[] = [backupProjectEncode(project)];
+    for (const a of annotators) body.push(backupAnnotatorEncode({ id: a.id, name: a.name, role: a.role }));
+    for (const b of batches) body.push(backupBatchEncode(batchInfo(b)));
+
+    const seqOf = new Map<number, number>();
+    await db.utterances
+      .where('[projectId+seq]')
+      .between([projectId, minKey], [projectId, maxKey])
+      .each((row) => {
+        seqOf.set(row.id, row.seq);
+        body.push(backupUtteranceEncode(utteranceInfo(row, batchPosition)));
+      });
+    const utteranceCount = seqOf.size;
+
+    const layerRows = await db.layers.where('[projectId+annotator+status]').between([projectId, minKey, minKey], [projectId, maxKey, maxKey]).toArray();
+    const layers = layerRows.map((row: LayerRow) => ({ seq: seqOf.get(row.utteranceId) ?? 0, row }));
+    // Code-unit order of annotator ids, then seq: independent of database ids and of locale.
+    layers.sort((a, b) => (a.row.annotator < b.row.annotator ? -1 : a.row.annotator > b.row.annotator ? 1 : a.seq - b.seq));
+    for (const { seq, row } of layers) {
+      const batch = row.batchId === undefined ? undefined : batchPosition.get(row.batchId);
+      body.push(backupLayerEncode({ seq, annotator: row.annotator, ...layerContent(row), ...(batch === undefined ? {} : { batch }) }));
+    }
+
+    const history = await db.history.where('projectId').equals(projectId).sortBy('id');
+    for (const h of history) {
+      body.push(backupHistoryEncode({ seq: seqOf.get(h.utteranceId) ?? 0, annotator: h.annotator, before: h.before, after: h.after, who: h.who, when: h.when }));
+    }
+
+    const now = db.clock();
+    const counts = { annotators: annotators.length, batches: batches.length, utterances: utteranceCount, layers: layers.length, history: history.length };
+    const parts = [backupHeaderEncode(new Date(now).toISOString(), counts), ...body].map((line) => `${line}\n`);
+    return { fileName: fileNameOf(project.name, now), parts };
+  });
+}
+
+/**
+ * Restore a backup as a new project, in one transaction: either the whole project appears or nothing
+ * does. Invalid files are refused with line-numbered errors and store nothing.
+ */
+export async function backupRestore(db: SlotsmithDb, text: string, options: { name?: string } = {}): Promise<BackupRestoreResult> {
+  const decoded = backupDecode(text);
+  if (!decoded.ok) return decoded;
+  const { data } = decoded;
+  const projectId = await dbWrite(db, dbTablesAll(db), async () => {
+    const projectId = await db.projects.add({ ...data.project, name: options.name ?? data.project.name });
+    await db.annotators.bulkAdd(data.annotators.map((a) => ({ ...a, projectId })));
+    const batchIds = await db.batches.bulkAdd(
+      data.batches.map((b) => ({ ...b, projectId }) as BatchRow),
+      { allKeys: true },
+    );
+    const batchId = (position: number | undefined) => (position === undefined ? undefined : batchIds[position - 1]);
+    const utterances = [...data.utterances].sort((a, b) => a.seq - b.seq);
+    const rows = utterances.map((u) => {
+      const row: Omit<UtteranceRow, 'id'> = { projectId, seq: u.seq, text: u.text, tokens: Int32Array.from(u.tokens), meta: u.meta, source: {} };
+      const b = batchId(u.batch);
+      if (b !== undefined) row.source.batchId = b;
+      if (u.line !== undefined) row.source.line = u.line;
+      if (u.externalId !== undefined) row.externalId = u.externalId;
+      if (u.intentHint !== undefined) row.intentHint = u.intentHint;
+      return row as UtteranceRow;
+    });
+    const ids = await db.utterances.bulkAdd(rows, { allKeys: true });
+    const idOf = new Map(utterances.map((u, i) => [u.seq, ids[i] as number]));
+    await db.layers.bulkAdd(
+      data.layers.map(({ seq, batch, ...layer }) => {
+        const row: LayerRow = { ...layer, utteranceId: idOf.get(seq) as number, projectId };
+        const b = batchId(batch);
+        if (b !== undefined) row.batchId = b;
+        return row;
+      }),
+    );
+    await db.history.bulkAdd(
+      data.history.map(({ seq, ...h }) => ({ ...h, projectId, utteranceId: idOf.get(seq) as number }) as HistoryRow),
+    );
+    return projectId;
+  });
+  return { ok: true, projectId, warnings: decoded.warnings };
+}

@@ -1,0 +1,135 @@
+/**
+ * Random projects as backup models, for the codec and the database round trips: texts with emoji,
+ * combining marks, Hebrew/Arabic and CJK (from the shared format generators), tags drawn from a pool
+ * with illegal sequences and malformed tags on purpose, optional fields present or absent.
+ */
+import fc from 'fast-check';
+import type {
+  AnnotatorInfo,
+  BackupData,
+  BackupHistory,
+  BackupLayer,
+  BackupUtterance,
+  BatchInfo,
+  IntentDef,
+  LayerContent,
+  ProjectInfo,
+  SlotDef,
+} from '../../../src/core/backup/model';
+import { fieldValueArbitrary, INTENTS, metaKeyArbitrary, shapeArbitrary, SLOTS } from '../../generators/formats';
+
+/** Legal and illegal IOB2/BIOES tags, and strings no scheme accepts: imports keep them all. */
+export const TAG_POOL = ['O', 'B-day', 'I-day', 'I-service', 'B-area', 'E-area', 'S-budget', 'B-día', 'I-地区', 'B-', 'x', 'i-day', ''];
+
+const time = fc.integer({ min: 0, max: 4_102_444_800_000 });
+const text = fc.oneof(fieldValueArbitrary, fc.constantFrom('Boiler jobs', 'תיקונים', 'إصلاحات 🔧', '修理 / 水道', '', 'a\u0301'));
+const optional = <T>(arb: fc.Arbitrary<T>) => fc.option(arb, { nil: undefined });
+
+/** Drop keys whose value is undefined, as the codec never writes them. */
+function defined<T>(value: object): T {
+  return Object.fromEntries(Object.entries(value).filter(([, v]) => v !== undefined)) as T;
+}
+
+const projectArbitrary: fc.Arbitrary<ProjectInfo> = fc.record({
+  name: text,
+  created: time,
+  updated: time,
+  tokeniser: fc.oneof(
+    fc.constant({ kind: 'words' as const }),
+    fc.constant({ kind: 'whitespace' as const }),
+    fc.record({ kind: fc.constant('regex' as const), pattern: fc.constantFrom('\\S+', '[\\p{L}\\p{N}]+'), flags: optional(fc.constantFrom('u', 'gu')) }).map((t) => defined<ProjectInfo['tokeniser']>(t)),
+  ),
+  scheme: fc.constantFrom('iob1' as const, 'iob2' as const, 'bioes' as const),
+  schema: fc.record({
+    slots: fc.uniqueArray(
+      fc.record({
+        name: fc.constantFrom(...SLOTS),
+        key: optional(fc.constantFrom('s', 'p', '1', 'ä')),
+        colour: optional(fc.constantFrom('#2a6f97', '#c1121f')),
+        description: optional(text),
+        examples: optional(fc.array(text, { maxLength: 2 })),
+        intents: optional(fc.array(fc.constantFrom(...INTENTS), { maxLength: 2 })),
+      }).map((slot) => defined<SlotDef>(slot)),
+      { maxLength: 3, selector: (s) => s.name },
+    ),
+    intents: fc.uniqueArray(fc.record({ name: fc.constantFrom(...INTENTS), description: optional(text) }).map((i) => defined<IntentDef>(i)), { maxLength: 3, selector: (i) => i.name }),
+  }),
+});
+
+const annotatorsArbitrary: fc.Arbitrary<AnnotatorInfo[]> = fc.uniqueArray(
+  fc.record({ id: fc.constantFrom('ana', 'bo', 'cy', 'דנה', '李'), name: text, role: fc.constantFrom('annotator' as const, 'adjudicator' as const) }),
+  { maxLength: 3, selector: (a) => a.id },
+);
+
+const batchArbitrary: fc.Arbitrary<BatchInfo> = fc
+  .record({
+    fileName: fc.constantFrom('visits.iob', 'ברז.jsonl', 'calls 2025.csv'),
+    format: fc.constantFrom('columns', 'jsonl', 'csv', 'text'),
+    annotator: optional(fc.constantFrom('ana', 'gold')),
+    layerStatus: optional(fc.constantFrom('done' as const, 'draft' as const)),
+    counts: fc.record({ utterances: fc.nat(9), tokens: fc.nat(99), layers: fc.nat(9) }),
+    warnings: fc.array(fc.record({ line: fc.nat(500), message: text }), { maxLength: 2 }),
+    state: fc.constantFrom('done' as const, 'failed' as const, 'cancelled' as const),
+    created: time,
+    finished: optional(time),
+    failure: optional(text),
+  })
+  .map((b) => defined<BatchInfo>(b));
+
+function contentArbitrary(tokenCount: number): fc.Arbitrary<LayerContent> {
+  return fc.record({
+    tags: fc.array(fc.constantFrom(...TAG_POOL), { minLength: tokenCount, maxLength: tokenCount }),
+    intent: fc.option(fc.constantFrom(...INTENTS, 'unknown intent', ''), { nil: null }),
+    status: fc.constantFrom('unlabelled' as const, 'draft' as const, 'done' as const, 'skipped' as const, 'flagged' as const),
+    note: fc.oneof(fc.constant(''), text),
+    revision: fc.integer({ min: 1, max: 40 }),
+    updated: time,
+  });
+}
+
+function utterancesArbitrary(batchCount: number): fc.Arbitrary<BackupUtterance[]> {
+  const one = fc.record({
+    shape: shapeArbitrary,
+    externalId: optional(fieldValueArbitrary),
+    intentHint: optional(fc.constantFrom(...INTENTS)),
+    meta: fc.dictionary(metaKeyArbitrary, fieldValueArbitrary, { maxKeys: 2 }),
+    batch: batchCount === 0 ? fc.constant(undefined) : optional(fc.integer({ min: 1, max: batchCount })),
+    line: optional(fc.integer({ min: 1, max: 10_000 })),
+    gap: fc.integer({ min: 1, max: 3 }),
+  });
+  return fc.array(one, { maxLength: 6 }).map((list) => {
+    let seq = 0;
+    return list.map(({ shape, gap, ...rest }) => {
+      seq += gap;
+      return defined<BackupUtterance>({ seq, text: shape.text, tokens: shape.tokens.flatMap((t) => [t.start, t.end]), ...rest });
+    });
+  });
+}
+
+export const backupDataArbitrary: fc.Arbitrary<BackupData> = fc
+  .tuple(projectArbitrary, annotatorsArbitrary, fc.array(batchArbitrary, { maxLength: 3 }))
+  .chain(([project, annotators, batches]) =>
+    utterancesArbitrary(batches.length).chain((utterances) => {
+      const owners = [...annotators.map((a) => a.id), 'gold', 'model'];
+      const slots = utterances.flatMap((u) => owners.map((annotator) => ({ seq: u.seq, annotator, count: u.tokens.length / 2 })));
+      const layerFor = (slot: (typeof slots)[number]) =>
+        fc.record({
+          content: contentArbitrary(slot.count),
+          batch: batches.length === 0 ? fc.constant(undefined) : optional(fc.integer({ min: 1, max: batches.length })),
+          history: fc.array(fc.tuple(fc.option(contentArbitrary(slot.count), { nil: null }), contentArbitrary(slot.count), fc.constantFrom('ana', 'cy'), time), { maxLength: 2 }),
+        }).map(({ content, batch, history }) => ({
+          layer: defined<BackupLayer>({ seq: slot.seq, annotator: slot.annotator, ...content, batch }),
+          history: history.map(([before, after, who, when]): BackupHistory => ({ seq: slot.seq, annotator: slot.annotator, before, after, who, when })),
+        }));
+      return fc.subarray(slots, { maxLength: Math.min(8, slots.length) }).chain((chosen) =>
+        fc.tuple(...chosen.map(layerFor)).map((made) => ({
+          project,
+          annotators,
+          batches,
+          utterances,
+          layers: made.map((m) => m.layer),
+          history: made.flatMap((m) => m.history),
+        })),
+      );
+    }),
+  );
