@@ -1,4 +1,4 @@
-import { agreementCompute, layersAlign, type AlignLayer } from '../../core/agreement';
+import { agreementCompute, alignBuilder } from '../../core/agreement';
 import { EXIT_BAD_INPUT, EXIT_OK } from '../exit-codes';
 import type { CliIo } from '../io';
 import { documentLoad, type LoadOptions } from '../load';
@@ -13,10 +13,13 @@ export interface AgreeOptions extends LoadOptions {
 
 /** `slotsmith agree A B [C …]`: malformed or mismatched input is exit 2 with every problem listed. */
 export function agreeRun(files: readonly string[], options: AgreeOptions, io: CliIo): number {
-  const layers: AlignLayer[] = [];
+  // Each file streams straight into the builder: no Utterance objects outlive their parse.
+  const builder = alignBuilder();
   let bad = false;
   for (const file of files) {
-    const loaded = documentLoad(file, options);
+    builder.layerBegin(file);
+    const loaded = documentLoad(file, options, (utterance) => builder.utteranceAdd(utterance));
+    builder.layerEnd();
     if (!loaded.ok) {
       io.err(`${file}:0: error: ${loaded.message}\n`);
       bad = true;
@@ -24,13 +27,12 @@ export function agreeRun(files: readonly string[], options: AgreeOptions, io: Cl
     }
     for (const e of loaded.document.errors) io.err(`${file}:${e.line}: error: ${e.message}\n`);
     if (loaded.document.errors.length > 0) bad = true;
-    layers.push({ name: file, scheme: loaded.document.scheme, utterances: loaded.document.utterances });
   }
   if (bad) {
     io.err('agree: malformed input; no figures computed\n');
     return EXIT_BAD_INPUT;
   }
-  const aligned = layersAlign(layers);
+  const aligned = builder.finish();
   if (!aligned.ok) {
     for (const e of aligned.errors) io.err(`agree: ${e.message}\n`);
     if (aligned.errorCount > aligned.errors.length) io.err(`agree: … ${aligned.errorCount - aligned.errors.length} more alignment problem(s)\n`);

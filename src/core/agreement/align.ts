@@ -1,20 +1,16 @@
 import type { Utterance } from '../types';
+import { AlignErrorList, lineText, placeText, utteranceName } from './align-errors';
 import {
-  AlignErrorList,
-  lineText,
-  placeOf,
-  placeText,
-  tokenPlaceText,
-  tokensFirstDifference,
-  tokenText,
-  utteranceName,
-} from './align-errors';
-import { LabelInterner, RawPrefix, RawTagTable } from './labels';
-import { MISSING, type AlignBy, type AlignedCorpus, type AlignLayer, type AlignOptions, type AlignResult } from './types';
-
-function idOf(utterance: Utterance): string | null {
-  return utterance.id === undefined || utterance.id === '' ? null : utterance.id;
-}
+  AlignLayerGatherer,
+  layerLine,
+  layerTokenCount,
+  layerTokenLine,
+  layerTokensFirstDifference,
+  layerTokenText,
+  type AlignLayerData,
+} from './align-layer';
+import { LabelInterner } from './labels';
+import { MISSING, type AlignBy, type AlignedCorpus, type AlignErrorPlace, type AlignLayer, type AlignOptions, type AlignResult } from './types';
 
 /** Per layer, the index of its utterance at each aligned position (-1 where absent). */
 interface Rows {
@@ -23,18 +19,22 @@ interface Rows {
   ids: (string | null)[];
 }
 
-function rowsById(layers: readonly AlignLayer[], errors: AlignErrorList): Rows {
+function placeAt(layer: AlignLayerData, k: number): AlignErrorPlace {
+  return { layer: layer.name, line: layerLine(layer, k) };
+}
+
+function rowsById(layers: readonly AlignLayerData[], errors: AlignErrorList): Rows {
   const positions = new Map<string, number>();
   const ids: string[] = [];
   const lists: number[][] = layers.map(() => []);
   layers.forEach((layer, l) => {
     const list = lists[l] ?? [];
-    layer.utterances.forEach((utterance, k) => {
-      const id = idOf(utterance);
+    for (let k = 0; k < layer.count; k++) {
+      const id = layer.ids[k] ?? null;
       if (id === null) {
-        const place = placeOf(layer.name, utterance);
+        const place = placeAt(layer, k);
         errors.add('missing-id', null, k, [place], `${placeText(place)}: utterance without an id; aligning by id needs one on every utterance`);
-        return;
+        continue;
       }
       let position = positions.get(id);
       if (position === undefined) {
@@ -44,14 +44,14 @@ function rowsById(layers: readonly AlignLayer[], errors: AlignErrorList): Rows {
       }
       const earlier = list[position];
       if (earlier !== undefined && earlier >= 0) {
-        const first = placeOf(layer.name, layer.utterances[earlier] ?? utterance);
-        const second = placeOf(layer.name, utterance);
+        const first = placeAt(layer, earlier);
+        const second = placeAt(layer, k);
         errors.add('duplicate-id', id, position, [first, second], `id ${id} occurs twice in ${layer.name} (${lineText(first.line)} and ${lineText(second.line)})`);
-        return;
+        continue;
       }
       while (list.length < position) list.push(-1);
       list[position] = k;
-    });
+    }
   });
   const rows = lists.map((list) => {
     const row = new Int32Array(ids.length).fill(-1);
@@ -61,113 +61,91 @@ function rowsById(layers: readonly AlignLayer[], errors: AlignErrorList): Rows {
   return { count: ids.length, rows, ids };
 }
 
-function rowsByPosition(layers: readonly AlignLayer[]): Rows {
-  const count = Math.max(0, ...layers.map((layer) => layer.utterances.length));
+function rowsByPosition(layers: readonly AlignLayerData[]): Rows {
+  const count = Math.max(0, ...layers.map((layer) => layer.count));
   const rows = layers.map((layer) => {
     const row = new Int32Array(count).fill(-1);
-    for (let k = 0; k < layer.utterances.length; k++) row[k] = k;
+    for (let k = 0; k < layer.count; k++) row[k] = k;
     return row;
   });
   const ids = Array.from({ length: count }, (_, u) => {
-    for (const layer of layers) {
-      const utterance = layer.utterances[u];
-      if (utterance !== undefined) return idOf(utterance);
-    }
-    return null;
+    const layer = layers.find((candidate) => u < candidate.count);
+    return layer === undefined ? null : (layer.ids[u] ?? null);
   });
   return { count, rows, ids };
 }
 
-/** Check every present utterance against the first layer holding it; returns each position's reference. */
-function tokensCheck(layers: readonly AlignLayer[], rows: Rows, errors: AlignErrorList): (Utterance | undefined)[] {
-  const references: (Utterance | undefined)[] = new Array<Utterance | undefined>(rows.count);
+/** Check every present utterance against the first layer holding it; returns each position's token count. */
+function tokensCheck(layers: readonly AlignLayerData[], rows: Rows, errors: AlignErrorList): Int32Array {
+  const counts = new Int32Array(rows.count);
   for (let u = 0; u < rows.count; u++) {
-    let reference: Utterance | undefined;
-    let referenceLayer = '';
-    const name = utteranceName(rows.ids[u] ?? null, u);
+    let reference: AlignLayerData | undefined;
+    let referenceK = -1;
+    const id = rows.ids[u] ?? null;
     layers.forEach((layer, l) => {
       const k = rows.rows[l]?.[u] ?? -1;
-      const utterance = k >= 0 ? layer.utterances[k] : undefined;
-      if (utterance === undefined) return;
-      if (utterance.tags.length !== utterance.tokens.length) {
-        const place = placeOf(layer.name, utterance);
-        const counts = `${String(utterance.tokens.length)} tokens but ${String(utterance.tags.length)} tags`;
-        errors.add('tags-count', rows.ids[u] ?? null, u, [place], `${name} in ${placeText(place)}: ${counts}`);
+      if (k < 0) return;
+      const tokens = layerTokenCount(layer, k);
+      const tags = layer.tagCounts[k] ?? 0;
+      if (tags !== tokens) {
+        const place = placeAt(layer, k);
+        errors.add('tags-count', id, u, [place], `${utteranceName(id, u)} in ${placeText(place)}: ${String(tokens)} tokens but ${String(tags)} tags`);
       }
       if (reference === undefined) {
-        reference = utterance;
-        referenceLayer = layer.name;
+        reference = layer;
+        referenceK = k;
+        counts[u] = tokens;
         return;
       }
-      const places = [placeOf(referenceLayer, reference), placeOf(layer.name, utterance)];
-      if (utterance.tokens.length !== reference.tokens.length) {
-        const a = `${placeText(places[0] ?? { layer: '', line: null })} has ${String(reference.tokens.length)} tokens`;
-        const b = `${placeText(places[1] ?? { layer: '', line: null })} has ${String(utterance.tokens.length)}`;
-        errors.add('tokens-differ', rows.ids[u] ?? null, u, places, `${name}: ${a}, ${b}`);
+      const places = [placeAt(reference, referenceK), placeAt(layer, k)];
+      const referenceTokens = layerTokenCount(reference, referenceK);
+      if (tokens !== referenceTokens) {
+        const a = `${placeText(places[0] ?? { layer: '', line: null })} has ${String(referenceTokens)} tokens`;
+        const b = `${placeText(places[1] ?? { layer: '', line: null })} has ${String(tokens)}`;
+        errors.add('tokens-differ', id, u, places, `${utteranceName(id, u)}: ${a}, ${b}`);
         return;
       }
-      const t = tokensFirstDifference(reference, utterance);
+      const t = layerTokensFirstDifference(reference, referenceK, layer, k);
       if (t >= 0) {
-        const a = `${JSON.stringify(tokenText(reference, t))} in ${tokenPlaceText(referenceLayer, reference, t)}`;
-        const b = `${JSON.stringify(tokenText(utterance, t))} in ${tokenPlaceText(layer.name, utterance, t)}`;
-        errors.add('tokens-differ', rows.ids[u] ?? null, u, places, `${name}, token ${String(t + 1)}: ${a} but ${b}`);
+        const a = `${JSON.stringify(layerTokenText(reference, referenceK, t))} in ${reference.name} (${lineText(layerTokenLine(reference, referenceK, t))})`;
+        const b = `${JSON.stringify(layerTokenText(layer, k, t))} in ${layer.name} (${lineText(layerTokenLine(layer, k, t))})`;
+        errors.add('tokens-differ', id, u, places, `${utteranceName(id, u)}, token ${String(t + 1)}: ${a} but ${b}`);
       }
     });
-    references[u] = reference;
   }
-  return references;
+  return counts;
 }
 
-/**
- * Write one utterance's tags as IOB2 codes: the lenient CoNLL-2000 reading of `spansFromTags` then
- * IOB2 encoding, i.e. what `tagsConvert(tags, 'iob2')` gives, without building strings.
- */
-function tagsEncode(tags: readonly string[], raw: RawTagTable, out: Int32Array, at: number): void {
-  let open = 0;
-  for (let t = 0; t < tags.length; t++) {
-    const code = raw.code(tags[t] ?? 'O');
-    const prefix = raw.prefix[code] ?? RawPrefix.O;
-    const slot = raw.slot[code] ?? 0;
-    if (prefix === RawPrefix.O) {
-      open = 0;
-      out[at + t] = 0;
-      continue;
-    }
-    if ((prefix === RawPrefix.I || prefix === RawPrefix.E) && open === slot) {
-      out[at + t] = 2 * slot;
-    } else {
-      out[at + t] = 2 * slot - 1;
-      open = slot;
-    }
-    if (prefix === RawPrefix.E || prefix === RawPrefix.S) open = 0;
-  }
-}
-
-function codesRemap(codes: Int32Array, remap: Int32Array): void {
-  for (let i = 0; i < codes.length; i++) {
-    const code = codes[i] ?? MISSING;
-    if (code !== MISSING) codes[i] = remap[code] ?? code;
-  }
-}
-
-/** Tag code remap induced by a slot remap (the B/I layout keeps its parity). */
-function tagRemapFromSlots(slotRemap: Int32Array): Int32Array {
-  const remap = new Int32Array(2 * slotRemap.length - 1);
-  for (let s = 1; s < slotRemap.length; s++) {
-    const to = slotRemap[s] ?? s;
-    remap[2 * s - 1] = 2 * to - 1;
-    remap[2 * s] = 2 * to;
-  }
-  return remap;
-}
-
-function corpusBuild(layers: readonly AlignLayer[], rows: Rows, by: AlignBy, references: (Utterance | undefined)[]): AlignedCorpus {
-  const offsets = new Int32Array(rows.count + 1);
-  for (let u = 0; u < rows.count; u++) offsets[u + 1] = (offsets[u] ?? 0) + (references[u]?.tokens.length ?? 0);
-  const tokenCount = offsets[rows.count] ?? 0;
+/** Per layer, local tag code -> final tag code (slots renumbered by name; the B/I layout keeps its parity). */
+function tagRemaps(layers: readonly AlignLayerData[]): { remaps: Int32Array[]; slotNames: string[] } {
   const slots = new LabelInterner(1);
+  const global = layers.map((layer) => layer.slotNames.map((name) => slots.code(name)));
+  const order = slots.sorted();
+  const remaps = global.map((codes) => {
+    const remap = new Int32Array(2 * codes.length + 1);
+    codes.forEach((code, i) => {
+      const to = order.remap[code] ?? code;
+      remap[2 * (i + 1) - 1] = 2 * to - 1;
+      remap[2 * (i + 1)] = 2 * to;
+    });
+    return remap;
+  });
+  return { remaps, slotNames: order.names };
+}
+
+function intentRemaps(layers: readonly AlignLayerData[]): { remaps: Int32Array[]; names: string[] } {
   const intents = new LabelInterner(0);
-  const raw = new RawTagTable(slots);
+  const global = layers.map((layer) => layer.intentNames.map((name) => intents.code(name)));
+  const order = intents.sorted();
+  return { remaps: global.map((codes) => Int32Array.from(codes, (code) => order.remap[code] ?? code)), names: order.names };
+}
+
+function corpusBuild(layers: readonly AlignLayerData[], rows: Rows, by: AlignBy, counts: Int32Array): AlignedCorpus {
+  const offsets = new Int32Array(rows.count + 1);
+  for (let u = 0; u < rows.count; u++) offsets[u + 1] = (offsets[u] ?? 0) + (counts[u] ?? 0);
+  const tokenCount = offsets[rows.count] ?? 0;
+  const slotMaps = tagRemaps(layers);
+  const intentMaps = intentRemaps(layers);
   const tagArrays: Int32Array[] = [];
   const intentArrays: Int32Array[] = [];
   const presentArrays: Uint8Array[] = [];
@@ -175,36 +153,32 @@ function corpusBuild(layers: readonly AlignLayer[], rows: Rows, by: AlignBy, ref
   const hasIntents: boolean[] = [];
   layers.forEach((layer, l) => {
     const row = rows.rows[l] ?? new Int32Array(rows.count).fill(-1);
+    const tagRemap = slotMaps.remaps[l] ?? new Int32Array(1);
+    const intentRemap = intentMaps.remaps[l] ?? new Int32Array(0);
     const tags = new Int32Array(tokenCount).fill(MISSING);
     const intentCodes = new Int32Array(rows.count).fill(MISSING);
     const present = new Uint8Array(rows.count);
     const lines = new Int32Array(rows.count);
-    let anyIntent = false;
     for (let u = 0; u < rows.count; u++) {
-      const utterance = layer.utterances[row[u] ?? -1];
-      if (utterance === undefined) continue;
+      const k = row[u] ?? -1;
+      if (k < 0) continue;
       present[u] = 1;
-      lines[u] = utterance.line ?? 0;
-      tagsEncode(utterance.tags, raw, tags, offsets[u] ?? 0);
-      if (utterance.intent !== undefined) {
-        intentCodes[u] = intents.code(utterance.intent);
-        anyIntent = true;
-      }
+      lines[u] = layerLine(layer, k) ?? 0;
+      const from = layer.tokenStart[k] ?? 0;
+      const to = layer.tokenStart[k + 1] ?? 0;
+      const at = (offsets[u] ?? 0) - from;
+      for (let t = from; t < to; t++) tags[at + t] = tagRemap[layer.tags[t] ?? 0] ?? 0;
+      const intent = layer.intents[k] ?? MISSING;
+      if (intent !== MISSING) intentCodes[u] = intentRemap[intent] ?? intent;
     }
     tagArrays.push(tags);
     intentArrays.push(intentCodes);
     presentArrays.push(present);
     lineArrays.push(lines);
-    hasIntents.push(anyIntent);
+    hasIntents.push(layer.intents.some((intent) => intent !== MISSING));
   });
-  const slotOrder = slots.sorted();
-  const intentOrder = intents.sorted();
-  const tagRemap = tagRemapFromSlots(slotOrder.remap);
-  for (const tags of tagArrays) codesRemap(tags, tagRemap);
-  for (const codes of intentArrays) codesRemap(codes, intentOrder.remap);
-  const slotNames = ['O', ...slotOrder.names];
   const tagLabels = ['O'];
-  for (const slot of slotOrder.names) tagLabels.push(`B-${slot}`, `I-${slot}`);
+  for (const slot of slotMaps.slotNames) tagLabels.push(`B-${slot}`, `I-${slot}`);
   return {
     by,
     layers: layers.map((layer) => layer.name),
@@ -212,14 +186,65 @@ function corpusBuild(layers: readonly AlignLayer[], rows: Rows, by: AlignBy, ref
     utteranceCount: rows.count,
     tokenCount,
     offsets,
-    slots: slotNames,
+    slots: ['O', ...slotMaps.slotNames],
     tagLabels,
-    intentLabels: intentOrder.names,
+    intentLabels: intentMaps.names,
     tags: tagArrays,
     intents: intentArrays,
     present: presentArrays,
     lines: lineArrays,
     hasIntents,
+  };
+}
+
+/** `layersAlign` over layers already gathered (streamed, or gathered on other threads). */
+export function layerDataAlign(layers: readonly AlignLayerData[], options: AlignOptions = {}): AlignResult {
+  const errors = new AlignErrorList(options.errorLimit ?? 100);
+  const allHaveIds = layers.every((layer) => layer.ids.every((id) => id !== null));
+  const by: AlignBy = options.by === undefined || options.by === 'auto' ? (allHaveIds ? 'id' : 'position') : options.by;
+  const rows = by === 'id' ? rowsById(layers, errors) : rowsByPosition(layers);
+  const counts = tokensCheck(layers, rows, errors);
+  if (errors.count > 0) return { ok: false, errors: errors.errors, errorCount: errors.count };
+  return { ok: true, corpus: corpusBuild(layers, rows, by, counts) };
+}
+
+/** Builds an alignment from layers whose utterances stream by one at a time; none is kept as an object. */
+export interface AlignBuilder {
+  layerBegin(name: string): void;
+  utteranceAdd(utterance: Utterance): void;
+  layerEnd(): void;
+  /** A layer gathered elsewhere (e.g. on a worker thread with `AlignLayerGatherer`). */
+  layerAdd(layer: AlignLayerData): void;
+  finish(): AlignResult;
+}
+
+export function alignBuilder(options: AlignOptions = {}): AlignBuilder {
+  const layers: AlignLayerData[] = [];
+  let open: AlignLayerGatherer | null = null;
+  const openLayer = (): AlignLayerGatherer => {
+    if (open === null) throw new Error('alignBuilder: utteranceAdd or layerEnd outside layerBegin … layerEnd');
+    return open;
+  };
+  return {
+    layerBegin(name) {
+      if (open !== null) throw new Error('alignBuilder: layerBegin before the previous layerEnd');
+      open = new AlignLayerGatherer(name);
+    },
+    utteranceAdd(utterance) {
+      openLayer().utteranceAdd(utterance);
+    },
+    layerEnd() {
+      layers.push(openLayer().done());
+      open = null;
+    },
+    layerAdd(layer) {
+      if (open !== null) throw new Error('alignBuilder: layerAdd inside layerBegin … layerEnd');
+      layers.push(layer);
+    },
+    finish() {
+      if (open !== null) throw new Error('alignBuilder: finish before layerEnd');
+      return layerDataAlign(layers, options);
+    },
   };
 }
 
@@ -232,11 +257,11 @@ function corpusBuild(layers: readonly AlignLayer[], rows: Rows, by: AlignBy, ref
  * duplicate or missing ids are all reported (up to `errorLimit`), never skipped.
  */
 export function layersAlign(layers: readonly AlignLayer[], options: AlignOptions = {}): AlignResult {
-  const errors = new AlignErrorList(options.errorLimit ?? 100);
-  const allHaveIds = layers.every((layer) => layer.utterances.every((utterance) => idOf(utterance) !== null));
-  const by: AlignBy = options.by === undefined || options.by === 'auto' ? (allHaveIds ? 'id' : 'position') : options.by;
-  const rows = by === 'id' ? rowsById(layers, errors) : rowsByPosition(layers);
-  const references = tokensCheck(layers, rows, errors);
-  if (errors.count > 0) return { ok: false, errors: errors.errors, errorCount: errors.count };
-  return { ok: true, corpus: corpusBuild(layers, rows, by, references) };
+  const builder = alignBuilder(options);
+  for (const layer of layers) {
+    builder.layerBegin(layer.name);
+    for (const utterance of layer.utterances) builder.utteranceAdd(utterance);
+    builder.layerEnd();
+  }
+  return builder.finish();
 }

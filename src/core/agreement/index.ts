@@ -1,4 +1,5 @@
-export { layersAlign } from './align';
+export { alignBuilder, layerDataAlign, layersAlign, type AlignBuilder } from './align';
+export { AlignLayerGatherer, type AlignLayerData } from './align-layer';
 export {
   bootstrapRange,
   mulberry32,
