@@ -1,0 +1,68 @@
+import { useEffect, useState, type ReactNode } from 'react';
+import { batchActiveByLocks, batchesCleanUnfinished } from '../../db';
+import { PRODUCT_NAME } from '../../core/version';
+import { useNav, type View } from '../../state/nav';
+import { ProjectsView } from '../features/projects/ProjectsView';
+import { appDb } from './db';
+import { projectViews } from './project-views';
+
+const VIEW_LABELS: Record<Exclude<View, 'projects'>, string> = {
+  import: 'Bring in data',
+  export: 'Write out data',
+  settings: 'Project settings',
+};
+
+/** Roll back imports a closed tab left half-done, and say so once. */
+function useStartupCleanup(): string | null {
+  const [notice, setNotice] = useState<string | null>(null);
+  useEffect(() => {
+    const locks = typeof navigator !== 'undefined' ? navigator.locks : undefined;
+    const options = locks === undefined ? {} : { isActive: batchActiveByLocks(locks) };
+    batchesCleanUnfinished(appDb(), options)
+      .then((report) => {
+        if (report.cleaned.length === 0) return;
+        const files = report.cleaned.map((c) => c.batch.fileName).join(', ');
+        setNotice(`An unfinished import was undone after the tab closed: ${files}. Nothing from it was kept.`);
+      })
+      .catch((error: unknown) => setNotice(`Start-up check failed: ${(error as Error).message}`));
+  }, []);
+  return notice;
+}
+
+export function App() {
+  const { view, projectId, go } = useNav();
+  const notice = useStartupCleanup();
+  let screen: ReactNode;
+  if (view === 'projects' || projectId === null) screen = <ProjectsView onOpen={(id) => go('import', id)} onDemo={projectViews.demoLoad} />;
+  else {
+    const Screen = projectViews[view];
+    screen = <Screen projectId={projectId} />;
+  }
+  return (
+    <div className="shell">
+      <header className="shell-header">
+        <h1>
+          {PRODUCT_NAME} <span className="shell-version">v{__APP_VERSION__}</span>
+        </h1>
+        <p className="shell-tagline">Slot and intent labelling for chat utterances, kept on this machine.</p>
+        <nav aria-label="Screens" className="shell-nav">
+          <button type="button" aria-current={view === 'projects' ? 'page' : undefined} onClick={() => go('projects')}>
+            All projects
+          </button>
+          {projectId !== null &&
+            (Object.keys(VIEW_LABELS) as (keyof typeof VIEW_LABELS)[]).map((v) => (
+              <button key={v} type="button" aria-current={view === v ? 'page' : undefined} onClick={() => go(v, projectId)}>
+                {VIEW_LABELS[v]}
+              </button>
+            ))}
+        </nav>
+      </header>
+      {notice !== null && (
+        <p role="status" className="shell-notice">
+          {notice}
+        </p>
+      )}
+      <main className="shell-main">{screen}</main>
+    </div>
+  );
+}
