@@ -1,0 +1,157 @@
+/**
+ * The two phases of an import over any database instance (the worker's own, or fake-indexeddb in
+ * tests): `importPreview` reads the file and reports; `importCommit` reads it again and stores it in
+ * chunks under one batch, rolled back on cancel or error so nothing partial remains.
+ */
+import type { IntentDef, ProjectSchema, SlotDef } from '../core/backup/model';
+import type { Utterance } from '../core/types';
+import {
+  batchBegin,
+  batchAppend,
+  batchFinish,
+  batchLockName,
+  batchRollback,
+  projectGet,
+  projectSchemaSet,
+  RecordMissingError,
+  type BatchBeginMeta,
+  type ProjectRow,
+  type SlotsmithDb,
+} from '../db';
+import { PreviewCollector, type ImportPreview } from './import-preview';
+import { fileStreamRead, formatHasLabels, ImportCancelledError, importReaderCreate, type ImportFileOptions } from './import-read';
+
+/** Utterances per stored chunk: big enough that transactions are few, small enough to keep memory flat. */
+export const IMPORT_CHUNK_UTTERANCES = 2000;
+
+export interface ImportRequest extends ImportFileOptions {
+  projectId: number;
+  fileName: string;
+  /** Whose layer receives the file's labels; required for formats with labels. */
+  annotator?: string;
+}
+
+export interface CommitRequest extends ImportRequest {
+  /** Utterances the preview counted, for the progress bar. */
+  total: number;
+  /** Labels to add to the project's schema along with the data. */
+  labelsAdd?: { slots: string[]; intents: string[] };
+}
+
+export interface ImportProgress {
+  phase: 'reading' | 'storing';
+  done: number;
+  total: number;
+}
+
+export interface ImportControl {
+  cancelled?: () => boolean;
+  onProgress?: (progress: ImportProgress) => void;
+  /** Runs `work` while holding the named exclusive lock (Web Locks in the browser). */
+  lock?: <T>(name: string, work: () => Promise<T>) => Promise<T>;
+}
+
+export interface ImportSummary {
+  batchId: number;
+  utterances: number;
+  tokens: number;
+  layers: number;
+  annotator: string | null;
+  labelsAdded: { slots: string[]; intents: string[] };
+}
+
+/** Malformed input stores nothing: the preview lists the lines, and the commit refuses the file. */
+export class ImportRefusedError extends Error {
+  override name = 'ImportRefusedError';
+}
+
+async function projectLoad(db: SlotsmithDb, projectId: number): Promise<ProjectRow> {
+  const project = await projectGet(db, projectId);
+  if (project === undefined) throw new RecordMissingError('project', projectId);
+  return project;
+}
+
+function readerSettings(request: ImportFileOptions, project: ProjectRow) {
+  return { ...request, tokeniser: project.tokeniser, projectScheme: project.scheme };
+}
+
+export async function importPreview(db: SlotsmithDb, file: Blob, request: ImportRequest, control: ImportControl = {}): Promise<ImportPreview> {
+  const project = await projectLoad(db, request.projectId);
+  const known = { slots: project.schema.slots.map((s) => s.name), intents: project.schema.intents.map((i) => i.name) };
+  const collector = new PreviewCollector(request.fileName, request.format, request.format === 'columns' ? request.scheme : (request.scheme ?? project.scheme), known);
+  const reader = importReaderCreate(readerSettings(request, project), (u) => collector.add(u));
+  const hooks = {
+    afterChunk: (bytes: number) => control.onProgress?.({ phase: 'reading', done: bytes, total: file.size }),
+    ...(control.cancelled === undefined ? {} : { cancelled: control.cancelled }),
+  };
+  const document = await fileStreamRead(file, reader, hooks);
+  return collector.finish(document.errors, document.scheme);
+}
+
+/** The project's schema with the given labels appended (names already there are skipped). */
+export function schemaWithLabels(schema: ProjectSchema, labels: { slots: readonly string[]; intents: readonly string[] }): ProjectSchema {
+  const slotNames = new Set(schema.slots.map((s) => s.name));
+  const intentNames = new Set(schema.intents.map((i) => i.name));
+  const slots: SlotDef[] = labels.slots.filter((n) => !slotNames.has(n)).map((name) => ({ name }));
+  const intents: IntentDef[] = labels.intents.filter((n) => !intentNames.has(n)).map((name) => ({ name }));
+  return { slots: [...schema.slots, ...slots], intents: [...schema.intents, ...intents] };
+}
+
+const lockNone = <T>(_name: string, work: () => Promise<T>): Promise<T> => work();
+
+export async function importCommit(db: SlotsmithDb, file: Blob, request: CommitRequest, control: ImportControl = {}): Promise<ImportSummary> {
+  const project = await projectLoad(db, request.projectId);
+  const withLabels = formatHasLabels(request.format);
+  if (withLabels && (request.annotator === undefined || request.annotator.trim() === '')) {
+    throw new ImportRefusedError('Name the annotator whose labels these are.');
+  }
+  const meta: BatchBeginMeta = { fileName: request.fileName, format: request.format };
+  if (withLabels && request.annotator !== undefined) meta.annotator = request.annotator.trim();
+  const batchId = await batchBegin(db, request.projectId, meta);
+  const cancelled = control.cancelled ?? (() => false);
+  // The lock tells other tabs' start-up cleanup that this batch is alive, for as long as it runs.
+  return (control.lock ?? lockNone)(batchLockName(batchId), async () => {
+    let pending: Utterance[] = [];
+    let read = 0;
+    let stored = 0;
+    let tokens = 0;
+    const flush = async () => {
+      if (pending.length === 0) return;
+      const chunk = pending;
+      pending = [];
+      await batchAppend(db, batchId, { utterances: chunk });
+      stored += chunk.length;
+      control.onProgress?.({ phase: 'storing', done: stored, total: Math.max(request.total, stored) });
+    };
+    try {
+      const reader = importReaderCreate(readerSettings(request, project), (u) => {
+        read++;
+        tokens += u.tokens.length;
+        pending.push(u);
+      });
+      const document = await fileStreamRead(file, reader, {
+        cancelled,
+        afterChunk: async () => {
+          if (pending.length >= IMPORT_CHUNK_UTTERANCES) await flush();
+        },
+      });
+      if (document.errors.length > 0) {
+        const first = document.errors[0];
+        throw new ImportRefusedError(`The file has ${document.errors.length} malformed line(s) (first: line ${first?.line}: ${first?.message}); nothing was stored.`);
+      }
+      await flush();
+      if (cancelled()) throw new ImportCancelledError();
+      const labelsAdded = { slots: [...(request.labelsAdd?.slots ?? [])], intents: [...(request.labelsAdd?.intents ?? [])] };
+      if (labelsAdded.slots.length + labelsAdded.intents.length > 0) {
+        const current = await projectLoad(db, request.projectId);
+        await projectSchemaSet(db, request.projectId, schemaWithLabels(current.schema, labelsAdded));
+      }
+      const done = await batchFinish(db, batchId, { utterances: read });
+      return { batchId, utterances: stored, tokens, layers: done.counts.layers, annotator: meta.annotator ?? null, labelsAdded };
+    } catch (error) {
+      const isCancel = error instanceof ImportCancelledError;
+      await batchRollback(db, batchId, { state: isCancel ? 'cancelled' : 'failed', failure: (error as Error).message });
+      throw error;
+    }
+  });
+}

@@ -1,0 +1,42 @@
+/** The import worker: preview and commit off the page's thread, over the worker's own database connection. */
+import * as Comlink from 'comlink';
+import { dbOpen } from '../db';
+import type { ImportPreview } from './import-preview';
+import { importCommit, importPreview, type CommitRequest, type ImportProgress, type ImportRequest, type ImportSummary } from './import-run';
+
+const db = dbOpen();
+const cancelledJobs = new Set<string>();
+
+function control(jobId: string, onProgress: ((p: ImportProgress) => void) | undefined) {
+  return {
+    cancelled: () => cancelledJobs.has(jobId),
+    // Progress calls go back over the message port; not awaited, so reading never waits on the page.
+    onProgress: (p: ImportProgress) => void onProgress?.(p),
+    lock: <T>(name: string, work: () => Promise<T>): Promise<T> => navigator.locks.request(name, work),
+  };
+}
+
+const api = {
+  async preview(file: Blob, request: ImportRequest, jobId: string, onProgress?: (p: ImportProgress) => void): Promise<ImportPreview> {
+    try {
+      return await importPreview(db, file, request, control(jobId, onProgress));
+    } finally {
+      cancelledJobs.delete(jobId);
+    }
+  },
+  async commit(file: Blob, request: CommitRequest, jobId: string, onProgress?: (p: ImportProgress) => void): Promise<ImportSummary> {
+    try {
+      return await importCommit(db, file, request, control(jobId, onProgress));
+    } finally {
+      cancelledJobs.delete(jobId);
+    }
+  },
+  /** Takes effect between two chunks of the file; a cancelled commit is rolled back before it returns. */
+  cancel(jobId: string): void {
+    cancelledJobs.add(jobId);
+  },
+};
+
+export type ImportWorkerApi = typeof api;
+
+Comlink.expose(api);
