@@ -1,9 +1,21 @@
-import { agreementCompute, alignBuilder } from '../../core/agreement';
+import {
+  agreementCompute,
+  agreementIntervalsAdd,
+  agreementPrepare,
+  alignBuilder,
+  resampleValuesJoin,
+  type AgreementOptions,
+  type AgreementReport,
+  type AlignBuilder,
+  type AlignedCorpus,
+} from '../../core/agreement';
+import type { ReadError } from '../../core/types';
 import { EXIT_BAD_INPUT, EXIT_OK } from '../exit-codes';
 import type { CliIo } from '../io';
 import { documentLoad, type LoadOptions } from '../load';
 import { agreeJson } from './agree-json';
 import { agreeText } from './agree-text';
+import { agreeWorkerCount, AgreeWorkers } from './agree-workers';
 
 export interface AgreeOptions extends LoadOptions {
   json: boolean;
@@ -11,37 +23,82 @@ export interface AgreeOptions extends LoadOptions {
   seed?: number;
 }
 
-/** `slotsmith agree A B [C …]`: malformed or mismatched input is exit 2 with every problem listed. */
-export function agreeRun(files: readonly string[], options: AgreeOptions, io: CliIo): number {
-  // Each file streams straight into the builder: no Utterance objects outlive their parse.
-  const builder = alignBuilder();
-  let bad = false;
-  for (const file of files) {
+type FileRead = { ok: true; errors: ReadError[] } | { ok: false; message: string };
+
+/** Each file streamed straight into the builder: no Utterance objects outlive their parse. */
+function filesReadHere(files: readonly string[], options: LoadOptions, builder: AlignBuilder): FileRead[] {
+  return files.map((file): FileRead => {
     builder.layerBegin(file);
     const loaded = documentLoad(file, options, (utterance) => builder.utteranceAdd(utterance));
     builder.layerEnd();
-    if (!loaded.ok) {
-      io.err(`${file}:0: error: ${loaded.message}\n`);
-      bad = true;
-      continue;
-    }
-    for (const e of loaded.document.errors) io.err(`${file}:${e.line}: error: ${e.message}\n`);
-    if (loaded.document.errors.length > 0) bad = true;
-  }
-  if (bad) {
-    io.err('agree: malformed input; no figures computed\n');
-    return EXIT_BAD_INPUT;
-  }
-  const aligned = builder.finish();
-  if (!aligned.ok) {
-    for (const e of aligned.errors) io.err(`agree: ${e.message}\n`);
-    if (aligned.errorCount > aligned.errors.length) io.err(`agree: … ${aligned.errorCount - aligned.errors.length} more alignment problem(s)\n`);
-    return EXIT_BAD_INPUT;
-  }
-  const report = agreementCompute(aligned.corpus, {
-    ...(options.bootstrap !== undefined && { bootstrap: options.bootstrap }),
-    ...(options.seed !== undefined && { seed: options.seed }),
+    return loaded.ok ? { ok: true, errors: loaded.document.errors } : loaded;
   });
-  io.out(options.json ? `${JSON.stringify(agreeJson(report))}\n` : agreeText(report));
-  return EXIT_OK;
+}
+
+async function filesReadOnWorkers(files: readonly string[], options: LoadOptions, builder: AlignBuilder, workers: AgreeWorkers): Promise<FileRead[]> {
+  const replies = await workers.gather(files, options);
+  return replies.map((reply): FileRead => {
+    if (!reply.ok) return reply;
+    builder.layerAdd(reply.layer);
+    return { ok: true, errors: reply.errors };
+  });
+}
+
+async function reportCompute(corpus: AlignedCorpus, options: AgreementOptions, workers: AgreeWorkers | null): Promise<AgreementReport> {
+  if (workers === null) return agreementCompute(corpus, options);
+  const pending = agreementPrepare(corpus, options);
+  if (pending.job === null) return pending.report;
+  return agreementIntervalsAdd(pending, resampleValuesJoin(await workers.bootstrap(pending.job)));
+}
+
+/**
+ * `slotsmith agree A B [C …]`: malformed or mismatched input is exit 2 with every problem listed.
+ * With SLOTSMITH_WORKERS=N, files are parsed and resamples drawn on N worker threads; the figures
+ * are the same whatever the thread count.
+ */
+export async function agreeRun(files: readonly string[], options: AgreeOptions, io: CliIo): Promise<number> {
+  const load: LoadOptions = {
+    ...(options.from !== undefined && { from: options.from }),
+    ...(options.scheme !== undefined && { scheme: options.scheme }),
+    ...(options.column !== undefined && { column: options.column }),
+  };
+  const count = agreeWorkerCount();
+  const workers = count > 0 ? new AgreeWorkers(count) : null;
+  try {
+    const builder = alignBuilder();
+    const reads = workers === null ? filesReadHere(files, load, builder) : await filesReadOnWorkers(files, load, builder, workers);
+    let bad = false;
+    reads.forEach((read, i) => {
+      const file = files[i] ?? '';
+      if (!read.ok) {
+        io.err(`${file}:0: error: ${read.message}\n`);
+        bad = true;
+        return;
+      }
+      for (const e of read.errors) io.err(`${file}:${e.line}: error: ${e.message}\n`);
+      if (read.errors.length > 0) bad = true;
+    });
+    if (bad) {
+      io.err('agree: malformed input; no figures computed\n');
+      return EXIT_BAD_INPUT;
+    }
+    const aligned = builder.finish();
+    if (!aligned.ok) {
+      for (const e of aligned.errors) io.err(`agree: ${e.message}\n`);
+      if (aligned.errorCount > aligned.errors.length) io.err(`agree: … ${aligned.errorCount - aligned.errors.length} more alignment problem(s)\n`);
+      return EXIT_BAD_INPUT;
+    }
+    const report = await reportCompute(
+      aligned.corpus,
+      {
+        ...(options.bootstrap !== undefined && { bootstrap: options.bootstrap }),
+        ...(options.seed !== undefined && { seed: options.seed }),
+      },
+      workers,
+    );
+    io.out(options.json ? `${JSON.stringify(agreeJson(report))}\n` : agreeText(report));
+    return EXIT_OK;
+  } finally {
+    await workers?.close();
+  }
 }

@@ -1,0 +1,54 @@
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { agreementCompute, layersAlign } from '../../src/core/agreement';
+import { columnsRead } from '../../src/core/formats';
+import { agreeJson } from '../../src/cli/commands/agree-json';
+import { repoRoot } from './run-cli';
+
+const corpus = (name: string) => `${repoRoot}/sample-corpus/${name}`;
+
+/** The bundled CLI with SLOTSMITH_WORKERS set (0 = everything on the main thread). */
+function agreeWith(workers: number, args: string[]): { code: number | null; stdout: string; stderr: string } {
+  const result = spawnSync(process.execPath, [`${repoRoot}/bin/slotsmith.mjs`, 'agree', ...args], {
+    cwd: repoRoot,
+    encoding: 'utf8',
+    env: { ...process.env, SLOTSMITH_WORKERS: String(workers) },
+  });
+  return { code: result.status, stdout: result.stdout, stderr: result.stderr };
+}
+
+describe('slotsmith agree on worker threads', () => {
+  const files = [corpus('ann-a.iob2'), corpus('ann-b.iob2'), corpus('truth.iob2')];
+
+  it('prints the same figures and intervals whatever the number of threads, equal to the in-process core', () => {
+    const args = ['--json', '--bootstrap', '257', '--seed', '9', ...files];
+    const outputs = [0, 1, 2, 3].map((workers) => agreeWith(workers, args));
+    for (const output of outputs) {
+      expect(output.stderr).toBe('');
+      expect(output.code).toBe(0);
+      expect(output.stdout).toBe(outputs[0]?.stdout);
+    }
+    const layers = files.map((file) => ({ name: file, ...columnsRead(readFileSync(file, 'utf8')) }));
+    const aligned = layersAlign(layers);
+    if (!aligned.ok) throw new Error('sample corpus did not align');
+    const core = agreementCompute(aligned.corpus, { bootstrap: 257, seed: 9 });
+    expect(JSON.parse(outputs[0]?.stdout ?? '')).toEqual(JSON.parse(JSON.stringify(agreeJson(core))));
+    expect(JSON.parse(outputs[2]?.stdout ?? '').ci.resamples).toBe(257);
+  });
+
+  it('reports read errors and token mismatches the same way on threads', () => {
+    const work = mkdtempSync(join(tmpdir(), 'slotsmith-agree-workers-'));
+    const changed = join(work, 'ann-b-changed.iob2');
+    // The first utterance's first token "where" becomes "when": a token mismatch with ann-a.
+    writeFileSync(changed, readFileSync(corpus('ann-b.iob2'), 'utf8').replace('\nwhere\tO\n', '\nwhen\tO\n'));
+    for (const args of [[corpus('ann-a.iob2'), join(work, 'no-such-file.iob2')], [corpus('ann-a.iob2'), changed]]) {
+      const [here, threads] = [0, 2].map((workers) => agreeWith(workers, args));
+      expect(here?.code).toBe(2);
+      expect(here?.stderr).toContain(args[1]);
+      expect(threads).toEqual(here);
+    }
+  });
+});
