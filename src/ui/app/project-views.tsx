@@ -1,20 +1,12 @@
 import type { ComponentType } from 'react';
+import { demoLoad } from '../features/import/demo-load';
+import { ImportView } from '../features/import/ImportView';
+import { ExportView } from '../features/export/ExportView';
+import { SettingsView } from '../features/settings/SettingsView';
 
-/**
- * The per-project screens, composed here so features never import each other. Each feature that is
- * not built yet shows a plain placeholder saying so.
- */
+/** The per-project screens, composed here so features never import each other. */
 export interface ProjectViewProps {
   projectId: number;
-}
-
-function NotYet({ what }: { what: string }) {
-  return (
-    <section aria-labelledby="not-yet-title">
-      <h2 id="not-yet-title">{what}</h2>
-      <p>This screen is not built yet.</p>
-    </section>
-  );
 }
 
 export const projectViews: {
@@ -23,8 +15,8 @@ export const projectViews: {
   settings: ComponentType<ProjectViewProps>;
   demoLoad: (() => Promise<number>) | undefined;
 } = {
-  import: () => <NotYet what="Bring in data" />,
-  export: () => <NotYet what="Write out data" />,
-  settings: () => <NotYet what="Project settings" />,
-  demoLoad: undefined,
+  import: ImportView,
+  export: ExportView,
+  settings: SettingsView,
+  demoLoad,
 };
