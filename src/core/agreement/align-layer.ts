@@ -30,9 +30,14 @@ export interface AlignLayerData {
   intentNames: string[];
 }
 
+/** Growable typed arrays; sized up front when the caller knows the size (big buffers trigger full GCs). */
 class IntGrow {
-  data = new Int32Array(1024);
+  data: Int32Array;
   length = 0;
+
+  constructor(capacity: number) {
+    this.data = new Int32Array(Math.max(capacity, 16));
+  }
 
   reserve(extra: number): void {
     if (this.length + extra <= this.data.length) return;
@@ -47,13 +52,17 @@ class IntGrow {
   }
 
   done(): Int32Array {
-    return this.data.slice(0, this.length);
+    return this.length === this.data.length ? this.data : this.data.slice(0, this.length);
   }
 }
 
 class FloatGrow {
-  data = new Float64Array(1024);
+  data: Float64Array;
   length = 0;
+
+  constructor(capacity: number) {
+    this.data = new Float64Array(Math.max(capacity, 16));
+  }
 
   push(value: number): void {
     if (this.length === this.data.length) {
@@ -65,7 +74,7 @@ class FloatGrow {
   }
 
   done(): Float64Array {
-    return this.data.slice(0, this.length);
+    return this.length === this.data.length ? this.data : this.data.slice(0, this.length);
   }
 }
 
@@ -73,18 +82,29 @@ class FloatGrow {
 export class AlignLayerGatherer {
   private readonly ids: (string | null)[] = [];
   private readonly texts: string[] = [];
-  private readonly lines = new FloatGrow();
-  private readonly tokenStart = new IntGrow();
-  private readonly ranges = new IntGrow();
-  private readonly tokenLines = new FloatGrow();
-  private readonly tagCounts = new IntGrow();
-  private readonly tags = new IntGrow();
-  private readonly intents = new IntGrow();
+  private readonly lines: FloatGrow;
+  private readonly tokenStart: IntGrow;
+  private readonly ranges: IntGrow;
+  private readonly tokenLines: FloatGrow;
+  private readonly tagCounts: IntGrow;
+  private readonly tags: IntGrow;
+  private readonly intents: IntGrow;
   private readonly slots = new LabelInterner(1);
   private readonly raw = new RawTagTable(this.slots);
   private readonly intentNames = new LabelInterner(0);
 
-  constructor(readonly name: string) {
+  /** `size`, when known, sizes the arrays once (streamed layers grow them by doubling). */
+  constructor(
+    readonly name: string,
+    size: { utterances: number; tokens: number } = { utterances: 1024, tokens: 16384 },
+  ) {
+    this.lines = new FloatGrow(size.utterances);
+    this.tokenStart = new IntGrow(size.utterances + 1);
+    this.ranges = new IntGrow(2 * size.tokens);
+    this.tokenLines = new FloatGrow(size.tokens);
+    this.tagCounts = new IntGrow(size.utterances);
+    this.tags = new IntGrow(size.tokens);
+    this.intents = new IntGrow(size.utterances);
     this.tokenStart.push(0);
   }
 

@@ -210,7 +210,8 @@ export function layerDataAlign(layers: readonly AlignLayerData[], options: Align
 
 /** Builds an alignment from layers whose utterances stream by one at a time; none is kept as an object. */
 export interface AlignBuilder {
-  layerBegin(name: string): void;
+  /** `size` (when known) lets the layer's arrays be allocated once. */
+  layerBegin(name: string, size?: { utterances: number; tokens: number }): void;
   utteranceAdd(utterance: Utterance): void;
   layerEnd(): void;
   /** A layer gathered elsewhere (e.g. on a worker thread with `AlignLayerGatherer`). */
@@ -226,9 +227,9 @@ export function alignBuilder(options: AlignOptions = {}): AlignBuilder {
     return open;
   };
   return {
-    layerBegin(name) {
+    layerBegin(name, size) {
       if (open !== null) throw new Error('alignBuilder: layerBegin before the previous layerEnd');
-      open = new AlignLayerGatherer(name);
+      open = new AlignLayerGatherer(name, size);
     },
     utteranceAdd(utterance) {
       openLayer().utteranceAdd(utterance);
@@ -259,7 +260,9 @@ export function alignBuilder(options: AlignOptions = {}): AlignBuilder {
 export function layersAlign(layers: readonly AlignLayer[], options: AlignOptions = {}): AlignResult {
   const builder = alignBuilder(options);
   for (const layer of layers) {
-    builder.layerBegin(layer.name);
+    let tokens = 0;
+    for (const utterance of layer.utterances) tokens += utterance.tokens.length;
+    builder.layerBegin(layer.name, { utterances: layer.utterances.length, tokens });
     for (const utterance of layer.utterances) builder.utteranceAdd(utterance);
     builder.layerEnd();
   }
