@@ -1,0 +1,40 @@
+/** Plain words for storage figures and restore outcomes on the settings screen. */
+import type { ReadError } from '../../../core/types';
+import type { StorageStatus } from '../../../db';
+
+/** Binary units, one decimal (common practice, no source). */
+export function bytesText(bytes: number): string {
+  const units = ['bytes', 'KiB', 'MiB', 'GiB', 'TiB'];
+  let value = bytes;
+  let unit = 0;
+  while (value >= 1024 && unit < units.length - 1) {
+    value /= 1024;
+    unit++;
+  }
+  return unit === 0 ? `${bytes} bytes` : `${value.toFixed(1)} ${units[unit]}`;
+}
+
+export function storageUsageText(status: StorageStatus): string {
+  if (status.usage === null || status.quota === null) return 'This browser does not say how much space is used.';
+  const share = status.quota > 0 ? ` (${((status.usage / status.quota) * 100).toFixed(1)} %)` : '';
+  return `${bytesText(status.usage)} used of ${bytesText(status.quota)} this browser allows${share}.`;
+}
+
+export function storagePersistText(persisted: boolean | null): string {
+  if (persisted === true) return 'Kept: the browser will not clear this data to free space.';
+  if (persisted === false) return 'Not kept yet: when the disk runs low, the browser may clear this data. Save backups regularly.';
+  return 'This browser does not say whether it keeps this data when space runs low. Save backups regularly.';
+}
+
+/** A free project name for a restored copy: the original, else "… (restored)", "… (restored 2)"… */
+export function restoreNameFree(name: string, taken: ReadonlySet<string>): string {
+  if (!taken.has(name)) return name;
+  for (let n = 1; ; n++) {
+    const candidate = `${name} (restored${n === 1 ? '' : ` ${n}`})`;
+    if (!taken.has(candidate)) return candidate;
+  }
+}
+
+export function readErrorText(e: ReadError): string {
+  return `Line ${e.line}: ${e.message}`;
+}
