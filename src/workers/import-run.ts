@@ -115,13 +115,19 @@ export async function importCommit(db: SlotsmithDb, file: Blob, request: CommitR
     let read = 0;
     let stored = 0;
     let tokens = 0;
-    const flush = async () => {
-      if (pending.length === 0) return;
-      const chunk = pending;
-      pending = [];
-      await batchAppend(db, batchId, { utterances: chunk });
-      stored += chunk.length;
-      control.onProgress?.({ phase: 'storing', done: stored, total: Math.max(request.total, stored) });
+    /** Store pending utterances in chunks of at most IMPORT_CHUNK_UTTERANCES, checking for cancel between them. */
+    const flush = async (all: boolean) => {
+      // A stream chunk may hold tens of thousands of utterances; one transaction per slice keeps cancel and progress prompt.
+      let from = 0;
+      while (pending.length - from >= (all ? 1 : IMPORT_CHUNK_UTTERANCES)) {
+        if (cancelled()) throw new ImportCancelledError();
+        const chunk = pending.slice(from, from + IMPORT_CHUNK_UTTERANCES);
+        from += chunk.length;
+        await batchAppend(db, batchId, { utterances: chunk });
+        stored += chunk.length;
+        control.onProgress?.({ phase: 'storing', done: stored, total: Math.max(request.total, stored) });
+      }
+      pending = pending.slice(from);
     };
     try {
       const reader = importReaderCreate(readerSettings(request, project), (u) => {
@@ -131,15 +137,13 @@ export async function importCommit(db: SlotsmithDb, file: Blob, request: CommitR
       });
       const document = await fileStreamRead(file, reader, {
         cancelled,
-        afterChunk: async () => {
-          if (pending.length >= IMPORT_CHUNK_UTTERANCES) await flush();
-        },
+        afterChunk: () => flush(false),
       });
       if (document.errors.length > 0) {
         const first = document.errors[0];
         throw new ImportRefusedError(`The file has ${document.errors.length} malformed line(s) (first: line ${first?.line}: ${first?.message}); nothing was stored.`);
       }
-      await flush();
+      await flush(true);
       if (cancelled()) throw new ImportCancelledError();
       const labelsAdded = { slots: [...(request.labelsAdd?.slots ?? [])], intents: [...(request.labelsAdd?.intents ?? [])] };
       if (labelsAdded.slots.length + labelsAdded.intents.length > 0) {
