@@ -64,7 +64,7 @@ test('a malformed file shows line-numbered errors and stores nothing', async ({ 
 });
 
 test('cancelling an import half-way leaves nothing behind', async ({ page, baseURL }) => {
-  test.setTimeout(150_000);
+  test.setTimeout(90_000);
   const foreign = watchOrigins(page, baseURL ?? '');
   // Big enough for many stored chunks, so Cancel lands while the import runs.
   let text = '';
@@ -81,7 +81,7 @@ test('cancelling an import half-way leaves nothing behind', async ({ page, baseU
   await expect(page.getByText(/^[1-9][\d,]* of 120,000 utterances$/)).toBeVisible({ timeout: 30_000 });
   await page.getByRole('button', { name: 'Cancel' }).click();
   // Cancel takes effect between two stored chunks, then the rollback runs before the message shows.
-  await expect(page.getByRole('alert')).toContainText('cancelled', { timeout: 90_000 });
+  await expect(page.getByRole('alert')).toContainText('cancelled', { timeout: 30_000 });
   await page.reload();
   await expect(page.getByText('This project holds 0 utterances')).toBeVisible();
   const batches = await page.evaluate(
