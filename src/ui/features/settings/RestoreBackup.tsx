@@ -2,7 +2,7 @@ import { useId, useState, type ChangeEvent } from 'react';
 import { backupRestore, projectList } from '../../../db';
 import type { ReadError } from '../../../core/types';
 import { appDb } from '../../app/db';
-import { readErrorText, restoreNameFree } from './settings-text';
+import { backupProjectName, readErrorText, restoreNameFree } from './settings-text';
 
 const ERRORS_SHOWN = 50;
 
@@ -32,16 +32,14 @@ export function RestoreBackup({ onRestored, onOpen }: RestoreBackupProps) {
       const text = await file.text();
       const db = appDb();
       const taken = new Set((await projectList(db)).map((p) => p.name));
-      // The name inside the file is only known after decoding; restore under a free variant of it.
-      const result = await backupRestore(db, text);
+      // A free name is chosen before the restore, so the project appears under it in the same transaction.
+      const original = backupProjectName(text);
+      const result = await backupRestore(db, text, original === undefined ? {} : { name: restoreNameFree(original, taken) });
       if (!result.ok) {
         setState({ kind: 'refused', file: file.name, errors: result.errors });
         return;
       }
-      const row = await db.projects.get(result.projectId);
-      const original = row?.name ?? 'project';
-      const name = restoreNameFree(original, taken);
-      if (row !== undefined && name !== original) await db.projects.update(result.projectId, { name });
+      const name = (await db.projects.get(result.projectId))?.name ?? original ?? 'project';
       setState({ kind: 'done', name, projectId: result.projectId });
       onRestored?.(result.projectId, name);
     } catch (error) {

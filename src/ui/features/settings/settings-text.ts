@@ -38,3 +38,21 @@ export function restoreNameFree(name: string, taken: ReadonlySet<string>): strin
 export function readErrorText(e: ReadError): string {
   return `Line ${e.line}: ${e.message}`;
 }
+
+/**
+ * The project name inside a backup, read from its second line (the project record) without decoding
+ * the whole file; undefined when that line is not a project record (the full decode then says why).
+ */
+export function backupProjectName(text: string): string | undefined {
+  const first = text.indexOf('\n');
+  if (first < 0) return undefined;
+  const second = text.indexOf('\n', first + 1);
+  try {
+    const record: unknown = JSON.parse(text.slice(first + 1, second < 0 ? undefined : second));
+    if (typeof record !== 'object' || record === null) return undefined;
+    const { type, name } = record as { type?: unknown; name?: unknown };
+    return type === 'project' && typeof name === 'string' ? name : undefined;
+  } catch {
+    return undefined;
+  }
+}

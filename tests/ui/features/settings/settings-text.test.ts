@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { bytesText, readErrorText, restoreNameFree, storagePersistText, storageUsageText } from '../../../../src/ui/features/settings/settings-text';
+import { backupProjectName, bytesText, readErrorText, restoreNameFree, storagePersistText, storageUsageText } from '../../../../src/ui/features/settings/settings-text';
 
 describe('settings texts', () => {
   it('shows sizes in binary units', () => {
@@ -24,5 +24,16 @@ describe('settings texts', () => {
 
   it('numbers file problems by line', () => {
     expect(readErrorText({ line: 3, message: '"seq" is missing' })).toBe('Line 3: "seq" is missing');
+  });
+});
+
+describe('backupProjectName', () => {
+  it('reads the name from the project record on the second line, else gives up quietly', () => {
+    const header = '{"format":"slotsmith-backup","formatVersion":1}';
+    expect(backupProjectName(`${header}\n{"type":"project","name":"Boiler jobs"}\n{"type":"utterance"}\n`)).toBe('Boiler jobs');
+    expect(backupProjectName(`${header}\n{"type":"project","name":"Last line"}`)).toBe('Last line');
+    expect(backupProjectName(`${header}\n{"type":"utterance","name":"x"}\n`)).toBeUndefined();
+    expect(backupProjectName(`${header}\nnot json\n`)).toBeUndefined();
+    expect(backupProjectName(header)).toBeUndefined();
   });
 });
