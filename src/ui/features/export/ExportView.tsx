@@ -54,7 +54,11 @@ export function ExportView({ projectId }: ProjectViewProps) {
 
   const owners = [...new Set([...people.map((p) => p.id), ...Object.keys(counts.layers)])].filter((a) => a !== GOLD_ANNOTATOR).sort();
   const form: ExportForm = { ...exportFormDefault(counts.layers[GOLD_ANNOTATOR] !== undefined, owners[0] ?? ''), ...edits };
-  const set = (patch: Partial<ExportForm>) => setEdits((e) => ({ ...e, ...patch }));
+  const set = (patch: Partial<ExportForm>) => {
+    setEdits((e) => ({ ...e, ...patch }));
+    // A refusal's "as they are" would write the old choices: it goes once the choices change.
+    if (phase.kind === 'refused') setPhase({ kind: 'idle' });
+  };
   const running = phase.kind === 'running';
   const projectName = project?.name ?? 'project';
 
