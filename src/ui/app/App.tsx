@@ -1,5 +1,5 @@
 import { useEffect, useState, type ReactNode } from 'react';
-import { batchActiveByLocks, batchesCleanUnfinished } from '../../db';
+import { batchActiveByLocks, batchesCleanUnfinished, storageStatus } from '../../db';
 import { PRODUCT_NAME } from '../../core/version';
 import { useNav, type View } from '../../state/nav';
 import { ProjectsView } from '../features/projects/ProjectsView';
@@ -25,6 +25,8 @@ function useStartupCleanup(): string | null {
         setNotice(`An unfinished import was undone after the tab closed: ${files}. Nothing from it was kept.`);
       })
       .catch((error: unknown) => setNotice(`Start-up check failed: ${(error as Error).message}`));
+    // Ask once that the browser keep this origin's data when it clears space; the settings screen shows the answer.
+    void storageStatus({ requestPersist: true }).catch(() => undefined);
   }, []);
   return notice;
 }
@@ -33,7 +35,11 @@ export function App() {
   const { view, projectId, go } = useNav();
   const notice = useStartupCleanup();
   let screen: ReactNode;
-  if (view === 'projects' || projectId === null) screen = <ProjectsView onOpen={(id) => go('import', id)} onDemo={projectViews.demoLoad} />;
+  const Restore = projectViews.restore;
+  if (view === 'projects' || projectId === null) {
+    const restore = <Restore onOpen={(id) => go('settings', id)} />;
+    screen = <ProjectsView onOpen={(id) => go('import', id)} onDemo={projectViews.demoLoad} extra={restore} />;
+  }
   else {
     const Screen = projectViews[view];
     screen = <Screen projectId={projectId} />;

@@ -1,5 +1,5 @@
 import { useLiveQuery } from 'dexie-react-hooks';
-import { useState, type FormEvent } from 'react';
+import { useState, type FormEvent, type ReactNode } from 'react';
 import { projectCreate, projectList } from '../../../db';
 import { appDb } from '../../app/db';
 import { ProjectRow } from './ProjectRow';
@@ -8,10 +8,12 @@ export interface ProjectsViewProps {
   onOpen: (projectId: number) => void;
   /** Creates the demo project and returns its id; absent until the import pipeline exists. */
   onDemo: (() => Promise<number>) | undefined;
+  /** Extra controls composed in by the app shell (e.g. restoring a backup). */
+  extra?: ReactNode;
 }
 
 /** The list of projects on this machine: create, open, rename, delete. */
-export function ProjectsView({ onOpen, onDemo }: ProjectsViewProps) {
+export function ProjectsView({ onOpen, onDemo, extra }: ProjectsViewProps) {
   const projects = useLiveQuery(() => projectList(appDb()), []);
   const [name, setName] = useState('');
   const [error, setError] = useState<string | null>(null);
@@ -57,6 +59,7 @@ export function ProjectsView({ onOpen, onDemo }: ProjectsViewProps) {
         <input id="project-name" value={name} onChange={(e) => setName(e.target.value)} required maxLength={200} />
         <button type="submit">Create project</button>
       </form>
+      {extra}
       {error !== null && (
         <p role="alert" className="error">
           {error}
