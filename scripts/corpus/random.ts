@@ -4,14 +4,9 @@
  * for cryptography. Every draw goes through `Random`, so one seed gives one byte-identical corpus.
  */
 
-/** One mulberry32 step: returns the next state and a 32-bit unsigned output. */
-export function mulberry32Next(state: number): { state: number; value: number } {
-  const next = (state + 0x6d2b79f5) | 0;
-  let t = next;
-  t = Math.imul(t ^ (t >>> 15), t | 1);
-  t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-  return { state: next, value: (t ^ (t >>> 14)) >>> 0 };
-}
+import { mulberry32Next } from '../../src/core/random';
+
+export { mulberry32Next };
 
 /** Mix a seed with a stream name so independent parts (texts, each annotator) draw apart. */
 export function seedDerive(seed: number, stream: string): number {
