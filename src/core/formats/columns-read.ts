@@ -1,4 +1,5 @@
-import { SCHEME_PREFIXES, tagIsInScheme } from '../schemes';
+import { KIND_I, KIND_S } from '../rules/tagKinds';
+import { SCHEME_PREFIXES, type ParsedTag } from '../schemes';
 import type { Document, ReadError, Scheme, Token, Utterance } from '../types';
 import { commentBounds, lineIsComment, type CommentBounds } from './columns-comment';
 import {
@@ -13,7 +14,7 @@ import {
   utteranceSink,
 } from './reader';
 import { SchemeEvidence } from './scheme-evidence';
-import { TagTable } from './tag-table';
+import { TagTable, TRIE_ROOT, TRIE_WIDTH, type TagEntry } from './tag-table';
 
 export interface ColumnsReadOptions extends UtteranceSinkOption {
   /** The file's scheme; detected from the tags when absent (see `SchemeEvidence`). */
@@ -22,12 +23,8 @@ export interface ColumnsReadOptions extends UtteranceSinkOption {
 
 const SPACE = 32;
 const TAB = 9;
+const HASH = 35;
 const DOCSTART = '-DOCSTART-';
-
-
-function charIsSeparator(code: number): boolean {
-  return code === SPACE || code === TAB;
-}
 
 function schemeName(scheme: Scheme): string {
   return scheme === 'bioes' ? 'BIOES' : scheme.toUpperCase();
@@ -54,6 +51,8 @@ class ColumnsParser implements LineParser {
   private readonly tagTable = new TagTable();
   private readonly evidence = new SchemeEvidence();
   private readonly scheme: Scheme | undefined;
+  /** Tags of a higher kind are rejected: malformed ones always, E-/S- when the scheme is IOB1 or IOB2. */
+  private readonly kindMax: number;
   private readonly emit: (utterance: Utterance) => void;
 
   // The utterance being read; `blockLine` is 0 between utterances.
@@ -70,67 +69,91 @@ class ColumnsParser implements LineParser {
   private id: string | undefined;
   private intent: string | undefined;
   private text: string | undefined;
+  /** The `# text` value as `textSource[textBase, textEnd)`: the flat string it was cut from. */
+  private textSource: string | undefined;
+  private textBase = 0;
+  private textEnd = 0;
   private textLine = 0;
   private meta: Record<string, string> | null = null;
   private readonly bounds: CommentBounds = { keyStart: 0, keyEnd: 0, valueStart: 0 };
 
   constructor(options: ColumnsReadOptions) {
     this.scheme = options.scheme;
+    this.kindMax = this.scheme === 'iob1' || this.scheme === 'iob2' ? KIND_I : KIND_S;
     this.emit = utteranceSink(options, this.utterances);
   }
 
   lineAdd(text: string, start: number, end: number, line: number): void {
     let first = start;
-    while (first < end && charIsSeparator(text.charCodeAt(first))) first++;
+    let code = 0;
+    while (first < end && ((code = text.charCodeAt(first)) === SPACE || code === TAB)) first++;
     if (first === end) {
       this.blockEnd();
       return;
     }
-    if (first === start && lineIsComment(text, start, end)) {
+    if (code === HASH && first === start && lineIsComment(text, start, end)) {
       this.commentAdd(text, start, end, line);
       return;
     }
     // Scan the token and, when a `# text` is being followed, compare it with the text in the same
-    // pass: this loop runs over every character of a million-token file.
-    const target = this.textLost ? undefined : this.text;
-    let at = this.offset;
-    if (target !== undefined) while (target.charCodeAt(at) === SPACE) at++;
-    let matched = target !== undefined;
+    // pass: this loop runs over every character of a million-token file. The text is read from the
+    // string it was cut from, a flat string (the cut itself would be a slice, slower to index).
+    const source = this.textSource;
+    const base = this.textBase;
+    const textEnd = this.textEnd;
+    let at = base + this.offset;
+    let matched = source !== undefined && !this.textLost;
+    if (matched) while (at < textEnd && source?.charCodeAt(at) === SPACE) at++;
     let firstEnd = first;
-    for (; firstEnd < end; firstEnd++) {
-      const code = text.charCodeAt(firstEnd);
+    for (let k = at; firstEnd < end; firstEnd++, k++) {
+      code = text.charCodeAt(firstEnd);
       if (code === SPACE || code === TAB) break;
-      if (matched && target?.charCodeAt(at + firstEnd - first) !== code) matched = false;
+      if (matched && (k >= textEnd || source?.charCodeAt(k) !== code)) matched = false;
     }
     if (firstEnd - first === DOCSTART.length && text.startsWith(DOCSTART, first)) return;
     if (this.blockLine === 0) this.blockStart(line);
     this.tokenLines.push(line);
     let last = end;
-    while (charIsSeparator(text.charCodeAt(last - 1))) last--;
+    while ((code = text.charCodeAt(last - 1)) === SPACE || code === TAB) last--;
+    // The tag (last column) is read backwards, walking the tag table's trie on the way.
+    const trie = this.tagTable.trie;
+    let node = TRIE_ROOT;
     let lastStart = last;
-    while (lastStart > firstEnd && !charIsSeparator(text.charCodeAt(lastStart - 1))) lastStart--;
+    while (lastStart > firstEnd && (code = text.charCodeAt(lastStart - 1)) !== SPACE && code !== TAB) {
+      node = code < TRIE_WIDTH ? (trie[node * TRIE_WIDTH + code] ?? 0) : 0;
+      lastStart--;
+    }
     if (lastStart <= firstEnd) {
-      const only = JSON.stringify(text.slice(first, last));
-      this.errorAdd(line, `missing tag column: expected a token and a tag separated by a tab or spaces, got only ${only}`);
+      this.tagMissing(text, first, last, line);
       return;
     }
-    const entry = this.tagTable.lookup(text, lastStart, last);
+    const entry = this.tagTable.entries[node] ?? this.tagTable.lookup(text, lastStart, last);
     this.tags.push(entry.tag);
-    if (entry.parsed === null) {
-      this.errorAdd(line, tagInvalidMessage(entry.tag));
-    } else {
-      this.evidence.tagAdd(entry.parsed);
-      if (this.scheme !== undefined && !tagIsInScheme(entry.parsed, this.scheme)) {
-        this.errorAdd(line, schemeMismatchMessage(entry.tag, this.scheme));
-      }
-    }
-    if (this.text === undefined) {
+    if (entry.kind > this.kindMax) this.tagReject(entry, line);
+    else if (this.scheme === undefined) this.evidence.tagAdd(entry.parsed as ParsedTag);
+    if (source === undefined) {
       this.tokenTexts.push(text.slice(first, firstEnd));
       this.tokens.push({ start: this.offset, end: this.offset + firstEnd - first });
       this.offset += firstEnd - first + 1;
+    } else if (matched) {
+      at -= base;
+      this.tokens.push({ start: at, end: at + firstEnd - first });
+      this.offset = at + firstEnd - first;
     } else {
-      this.tokenLocate(text, first, firstEnd, line, matched ? at : -1);
+      this.tokenLocate(text, first, firstEnd, line);
     }
+  }
+
+  private tagMissing(text: string, first: number, last: number, line: number): void {
+    const only = JSON.stringify(text.slice(first, last));
+    this.errorAdd(line, `missing tag column: expected a token and a tag separated by a tab or spaces, got only ${only}`);
+  }
+
+  /** A malformed tag, or (scheme given) one outside the scheme; a detected scheme admits every prefix. */
+  private tagReject(entry: TagEntry, line: number): void {
+    const scheme = this.scheme;
+    const message = entry.parsed === null || scheme === undefined ? tagInvalidMessage(entry.tag) : schemeMismatchMessage(entry.tag, scheme);
+    this.errorAdd(line, message);
   }
 
   lineUndecodable(line: number): void {
@@ -145,31 +168,23 @@ class ColumnsParser implements LineParser {
     return { scheme, utterances: this.utterances, errors: errorsSort(this.errors) };
   }
 
-  /**
-   * `matchedAt` is where the token already matched the text right after the previous token and some
-   * spaces (-1 if it did not). A token never starts with a space, so such a match is also the first
-   * one `indexOf` would find.
-   */
-  private tokenLocate(line: string, first: number, firstEnd: number, lineNumber: number, matchedAt: number): void {
-    const length = firstEnd - first;
+  /** Find a token that did not match right after the previous one (and some spaces) further on in `# text`. */
+  private tokenLocate(line: string, first: number, firstEnd: number, lineNumber: number): void {
     const target = this.text;
     if (target === undefined || this.textLost) return;
-    let at = matchedAt;
+    const token = line.slice(first, firstEnd);
+    const at = target.indexOf(token, this.offset);
     if (at < 0) {
-      const token = line.slice(first, firstEnd);
-      at = target.indexOf(token, this.offset);
-      if (at < 0) {
-        this.textLost = true;
-        this.errorAdd(
-          lineNumber,
-          `token/text mismatch: token ${JSON.stringify(token)} is not in the "# text" comment (line ${this.textLine}) ` +
-            `after character ${this.offset}; the text must contain the tokens in order`,
-        );
-        return;
-      }
+      this.textLost = true;
+      this.errorAdd(
+        lineNumber,
+        `token/text mismatch: token ${JSON.stringify(token)} is not in the "# text" comment (line ${this.textLine}) ` +
+          `after character ${this.offset}; the text must contain the tokens in order`,
+      );
+      return;
     }
-    this.tokens.push({ start: at, end: at + length });
-    this.offset = at + length;
+    this.tokens.push({ start: at, end: at + token.length });
+    this.offset = at + token.length;
   }
 
   private commentAdd(text: string, start: number, end: number, line: number): void {
@@ -187,6 +202,9 @@ class ColumnsParser implements LineParser {
     else if (keyEnd - keyStart === 6 && text.startsWith('intent', keyStart)) this.intent = value;
     else if (keyEnd - keyStart === 4 && text.startsWith('text', keyStart)) {
       this.text = value;
+      this.textSource = text;
+      this.textBase = bounds.valueStart;
+      this.textEnd = end;
       this.textLine = line;
     } else {
       this.meta ??= {};
@@ -227,6 +245,7 @@ class ColumnsParser implements LineParser {
     this.id = undefined;
     this.intent = undefined;
     this.text = undefined;
+    this.textSource = undefined;
     this.meta = null;
   }
 

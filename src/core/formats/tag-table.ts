@@ -1,44 +1,69 @@
+import { tagKind } from '../rules/tagKinds';
 import { tagParse, type ParsedTag } from '../schemes';
 
 /** A distinct tag string, parsed once; every utterance shares this one string. */
 export interface TagEntry {
   tag: string;
   parsed: ParsedTag | null;
+  /** The tag's `tagKind`, so validators need not read it again. */
+  kind: number;
 }
 
-const LETTER_O = 79;
-const SLOTS = 4096;
+/** Trie rows are indexed by ASCII code unit: `trie[node * TRIE_WIDTH + code]` is the child node. */
+export const TRIE_WIDTH = 128;
+/** The trie's root node; node 0 is "no such tag on the trie" and its row stays all zero. */
+export const TRIE_ROOT = 1;
+/** Trie size cap: a file of countless distinct (say malformed) tags falls back to the map, memory stays bounded. */
+const NODES_MAX = 4096;
 
 /**
- * Looks tags up straight from the line they sit in, so the million tags of a big file cost no
- * string allocation each; only a tag never seen before is sliced out. The slot comes from the
- * length and three code units (cheap, and enough to tell `B-day` from `I-day`); `startsWith`
- * settles collisions.
+ * Interns tags straight from the line they sit in, so the million tags of a big file cost no string
+ * allocation each. A caller scanning a tag anyway walks the trie as it goes, from the tag's last code
+ * unit backwards (the way the column reader reads a line's last column), and lands on the entry with
+ * no string compare. Tags off the trie (new, non-ASCII, or past the cap) go through `lookup`.
  */
 export class TagTable {
-  private readonly slots: (TagEntry[] | undefined)[] = new Array<TagEntry[] | undefined>(SLOTS);
-  private readonly outside: TagEntry = { tag: 'O', parsed: tagParse('O') };
+  /** Child links, one row of `TRIE_WIDTH` per node; a typed array keeps each step one plain load. */
+  trie = new Int32Array(64 * TRIE_WIDTH);
+  /** The entry a trie node stands for, by node. */
+  readonly entries: (TagEntry | undefined)[] = [undefined, undefined];
+  private readonly byTag = new Map<string, TagEntry>();
 
   /** The entry for `text[start, end)` (non-empty). */
   lookup(text: string, start: number, end: number): TagEntry {
-    const length = end - start;
-    const head = text.charCodeAt(start);
-    if (length === 1 && head === LETTER_O) return this.outside;
-    const mix = length * 31 + head * 7 + text.charCodeAt(start + (length >> 1)) * 3 + text.charCodeAt(end - 1);
-    const slot = mix & (SLOTS - 1);
-    let bucket = this.slots[slot];
-    if (bucket === undefined) {
-      bucket = [];
-      this.slots[slot] = bucket;
-    } else {
-      for (let i = 0; i < bucket.length; i++) {
-        const entry = bucket[i];
-        if (entry !== undefined && entry.tag.length === length && text.startsWith(entry.tag, start)) return entry;
-      }
-    }
     const tag = text.slice(start, end);
-    const entry = { tag, parsed: tagParse(tag) };
-    bucket.push(entry);
+    let entry = this.byTag.get(tag);
+    if (entry === undefined) {
+      entry = { tag, parsed: tagParse(tag), kind: tagKind(tag) };
+      this.byTag.set(tag, entry);
+      this.trieAdd(entry);
+    }
     return entry;
+  }
+
+  private trieAdd(entry: TagEntry): void {
+    const tag = entry.tag;
+    for (let i = 0; i < tag.length; i++) if (tag.charCodeAt(i) >= TRIE_WIDTH) return;
+    if (this.entries.length + tag.length > NODES_MAX) return;
+    let node = TRIE_ROOT;
+    for (let i = tag.length - 1; i >= 0; i--) {
+      const cell = node * TRIE_WIDTH + tag.charCodeAt(i);
+      let child = this.trie[cell] ?? 0;
+      if (child === 0) {
+        child = this.entries.push(undefined) - 1;
+        this.trieGrow();
+        this.trie[cell] = child;
+      }
+      node = child;
+    }
+    this.entries[node] = entry;
+  }
+
+  private trieGrow(): void {
+    const rows = this.entries.length;
+    if (rows * TRIE_WIDTH <= this.trie.length) return;
+    const grown = new Int32Array(this.trie.length * 2);
+    grown.set(this.trie);
+    this.trie = grown;
   }
 }
