@@ -1,7 +1,20 @@
 import type { Scheme } from '../types';
 import type { TransitionRuleId } from './ruleIds';
 import { transitionMessage } from './transitionMessages';
-import { KIND_B, KIND_E, KIND_END, KIND_I, KIND_MALFORMED, KIND_O, KIND_S, KIND_START, tagKind, tagsShareSlot } from './tagKinds';
+import {
+  KIND_B,
+  KIND_E,
+  KIND_END,
+  KIND_I,
+  KIND_MALFORMED,
+  KIND_O,
+  KIND_S,
+  KIND_START,
+  tagCode,
+  tagCodeKind,
+  tagCodesShareSlot,
+  tagsShareSlot,
+} from './tagKinds';
 
 /**
  * One illegal transition `previous -> tag`. `index` is the token index of the later token; for a span
@@ -103,34 +116,34 @@ const TABLES: Record<Scheme, TransitionTable> = {
   bioes: transitionTableBuild(judgeBioes),
 };
 
+function violationMake(tags: readonly string[], i: number, rule: TransitionRuleId): Violation {
+  const length = tags.length;
+  const previous = i === 0 ? null : (tags[i - 1] ?? '');
+  const tag = i < length ? (tags[i] ?? '') : null;
+  return { index: i < length ? i : length - 1, previous, tag, rule, message: transitionMessage(rule, previous, tag) };
+}
+
 /**
  * Every illegal transition of a tag sequence under `scheme`, in token order, at most one per
- * transition (including the one into the utterance end). Clean input allocates nothing per token.
+ * transition (including the one into the utterance end). Clean input allocates nothing per token,
+ * and each distinct tag is read once (see `tagCode`).
  */
 export function transitionsValidate(tags: readonly string[], scheme: Scheme): Violation[] {
   const { entries, rules } = TABLES[scheme];
   const violations: Violation[] = [];
   const length = tags.length;
   let previous = '';
-  let previousKind = KIND_START;
+  let previousCode = KIND_START;
   for (let i = 0; i <= length; i++) {
     const next = i < length ? (tags[i] ?? '') : '';
-    const kind = i < length ? tagKind(next) : KIND_END;
-    const entry = entries[previousKind * KIND_COUNT + kind] ?? 0;
-    if (entry !== 0 && (entry > 0 || !tagsShareSlot(previous, next))) {
-      const rule = rules[Math.abs(entry) - 1] as TransitionRuleId;
-      const previousTag = i === 0 ? null : previous;
-      const tag = i < length ? next : null;
-      violations.push({
-        index: i < length ? i : length - 1,
-        previous: previousTag,
-        tag,
-        rule,
-        message: transitionMessage(rule, previousTag, tag),
-      });
+    // Runs of one tag (O O O, I-x I-x) are the common case: the same string needs no second reading.
+    const code = i >= length ? KIND_END : next === previous && i > 0 ? previousCode : tagCode(next);
+    const entry = entries[tagCodeKind(previousCode) * KIND_COUNT + tagCodeKind(code)] ?? 0;
+    if (entry !== 0 && (entry > 0 || !tagCodesShareSlot(previous, previousCode, next, code))) {
+      violations.push(violationMake(tags, i, rules[Math.abs(entry) - 1] as TransitionRuleId));
     }
     previous = next;
-    previousKind = kind;
+    previousCode = code;
   }
   return violations;
 }
@@ -140,14 +153,14 @@ export function transitionsAreLegal(tags: readonly string[], scheme: Scheme): bo
   const { entries } = TABLES[scheme];
   const length = tags.length;
   let previous = '';
-  let previousKind = KIND_START;
+  let previousCode = KIND_START;
   for (let i = 0; i <= length; i++) {
     const next = i < length ? (tags[i] ?? '') : '';
-    const kind = i < length ? tagKind(next) : KIND_END;
-    const entry = entries[previousKind * KIND_COUNT + kind] ?? 0;
-    if (entry !== 0 && (entry > 0 || !tagsShareSlot(previous, next))) return false;
+    const code = i >= length ? KIND_END : next === previous && i > 0 ? previousCode : tagCode(next);
+    const entry = entries[tagCodeKind(previousCode) * KIND_COUNT + tagCodeKind(code)] ?? 0;
+    if (entry !== 0 && (entry > 0 || !tagCodesShareSlot(previous, previousCode, next, code))) return false;
     previous = next;
-    previousKind = kind;
+    previousCode = code;
   }
   return true;
 }
