@@ -13,6 +13,7 @@ import {
   type UtteranceSinkOption,
   utteranceSink,
 } from './reader';
+import type { LineCursor } from './lines';
 import { SchemeEvidence } from './scheme-evidence';
 import { TagTable, TRIE_ROOT, TRIE_WIDTH, type TagEntry } from './tag-table';
 
@@ -24,6 +25,8 @@ export interface ColumnsReadOptions extends UtteranceSinkOption {
 const SPACE = 32;
 const TAB = 9;
 const HASH = 35;
+const LF = 10;
+const CR = 13;
 const DOCSTART = '-DOCSTART-';
 
 function schemeName(scheme: Scheme): string {
@@ -83,6 +86,69 @@ class ColumnsParser implements LineParser {
     this.emit = utteranceSink(options, this.utterances);
   }
 
+  /**
+   * Every complete line of `text` from `from`, in one pass: the common lines (`token<TAB>tag` with a
+   * tag seen before, and blank lines) are read here with no line search and no call per line; any
+   * other line goes to `lineAdd`, which knows every case. Returns where the unfinished last line starts.
+   */
+  linesAdd(text: string, from: number, cursor: LineCursor): number {
+    const length = text.length;
+    const entries = this.tagTable.entries;
+    let line = cursor.line;
+    let start = from;
+    while (start < length) {
+      let code = text.charCodeAt(start);
+      if (code === LF) {
+        line++;
+        this.blockEnd();
+        start++;
+        continue;
+      }
+      fast: if (code > SPACE && code !== HASH) {
+        // The token, compared with `# text` as it is scanned (see `lineAdd`).
+        const source = this.textSource;
+        const textEnd = this.textEnd;
+        let at = this.textBase + this.offset;
+        let matched = source !== undefined && !this.textLost;
+        if (matched) while (at < textEnd && source?.charCodeAt(at) === SPACE) at++;
+        let i = start;
+        for (let k = at; i < length; i++, k++) {
+          code = text.charCodeAt(i);
+          if (code <= SPACE) break;
+          if (matched && (k >= textEnd || source?.charCodeAt(k) !== code)) matched = false;
+        }
+        const firstEnd = i;
+        if ((code !== TAB && code !== SPACE) || i === length) break fast;
+        if (firstEnd - start === DOCSTART.length && text.startsWith(DOCSTART, start)) break fast;
+        while (++i < length && ((code = text.charCodeAt(i)) === TAB || code === SPACE));
+        // The tag, walked down the tag table's trie; it must end the line.
+        const tagStart = i;
+        const trie = this.tagTable.trie;
+        let node = TRIE_ROOT;
+        for (; i < length; i++) {
+          code = text.charCodeAt(i);
+          if (code <= SPACE) break;
+          node = code < TRIE_WIDTH ? (trie[node * TRIE_WIDTH + code] ?? 0) : 0;
+        }
+        const entry = entries[node];
+        if (i === tagStart || i === length || entry === undefined) break fast;
+        if (code === CR && i + 1 < length && text.charCodeAt(i + 1) === LF) i++;
+        else if (code !== LF) break fast;
+        line++;
+        this.tokenAdd(text, start, firstEnd, entry, line, matched ? at : -1);
+        start = i + 1;
+        continue;
+      }
+      const newline = text.indexOf('\n', start);
+      if (newline < 0) break;
+      const end = newline > start && text.charCodeAt(newline - 1) === CR ? newline - 1 : newline;
+      this.lineAdd(text, start, end, ++line);
+      start = newline + 1;
+    }
+    cursor.line = line;
+    return start;
+  }
+
   lineAdd(text: string, start: number, end: number, line: number): void {
     let first = start;
     let code = 0;
@@ -99,9 +165,8 @@ class ColumnsParser implements LineParser {
     // pass: this loop runs over every character of a million-token file. The text is read from the
     // string it was cut from, a flat string (the cut itself would be a slice, slower to index).
     const source = this.textSource;
-    const base = this.textBase;
     const textEnd = this.textEnd;
-    let at = base + this.offset;
+    let at = this.textBase + this.offset;
     let matched = source !== undefined && !this.textLost;
     if (matched) while (at < textEnd && source?.charCodeAt(at) === SPACE) at++;
     let firstEnd = first;
@@ -111,34 +176,39 @@ class ColumnsParser implements LineParser {
       if (matched && (k >= textEnd || source?.charCodeAt(k) !== code)) matched = false;
     }
     if (firstEnd - first === DOCSTART.length && text.startsWith(DOCSTART, first)) return;
-    if (this.blockLine === 0) this.blockStart(line);
-    this.tokenLines.push(line);
     let last = end;
     while ((code = text.charCodeAt(last - 1)) === SPACE || code === TAB) last--;
-    // The tag (last column) is read backwards, walking the tag table's trie on the way.
-    const trie = this.tagTable.trie;
-    let node = TRIE_ROOT;
     let lastStart = last;
-    while (lastStart > firstEnd && (code = text.charCodeAt(lastStart - 1)) !== SPACE && code !== TAB) {
-      node = code < TRIE_WIDTH ? (trie[node * TRIE_WIDTH + code] ?? 0) : 0;
-      lastStart--;
-    }
+    while (lastStart > firstEnd && (code = text.charCodeAt(lastStart - 1)) !== SPACE && code !== TAB) lastStart--;
     if (lastStart <= firstEnd) {
+      if (this.blockLine === 0) this.blockStart(line);
+      this.tokenLines.push(line);
       this.tagMissing(text, first, last, line);
       return;
     }
-    const entry = this.tagTable.entries[node] ?? this.tagTable.lookup(text, lastStart, last);
+    this.tokenAdd(text, first, firstEnd, this.tagTable.find(text, lastStart, last), line, matched ? at : -1);
+  }
+
+  /**
+   * A token line with its tag: `text[first, firstEnd)` is the token; `matchedAt` is where it already
+   * matched `# text` (in `textSource`) right after the previous token and some spaces, or -1. A token
+   * never starts with a space, so such a match is also the first one `indexOf` would find.
+   */
+  private tokenAdd(text: string, first: number, firstEnd: number, entry: TagEntry, line: number, matchedAt: number): void {
+    if (this.blockLine === 0) this.blockStart(line);
+    this.tokenLines.push(line);
     this.tags.push(entry.tag);
     if (entry.kind > this.kindMax) this.tagReject(entry, line);
     else if (this.scheme === undefined) this.evidence.tagAdd(entry.parsed as ParsedTag);
-    if (source === undefined) {
+    const length = firstEnd - first;
+    if (this.textSource === undefined) {
       this.tokenTexts.push(text.slice(first, firstEnd));
-      this.tokens.push({ start: this.offset, end: this.offset + firstEnd - first });
-      this.offset += firstEnd - first + 1;
-    } else if (matched) {
-      at -= base;
-      this.tokens.push({ start: at, end: at + firstEnd - first });
-      this.offset = at + firstEnd - first;
+      this.tokens.push({ start: this.offset, end: this.offset + length });
+      this.offset += length + 1;
+    } else if (matchedAt >= 0) {
+      const at = matchedAt - this.textBase;
+      this.tokens.push({ start: at, end: at + length });
+      this.offset = at + length;
     } else {
       this.tokenLocate(text, first, firstEnd, line);
     }

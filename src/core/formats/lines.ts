@@ -9,10 +9,21 @@ export interface TextTarget {
   pushUndecodable(lineText: string): void;
 }
 
+/** The number of the last line handed on, kept up to date by a sink that splits lines itself. */
+export interface LineCursor {
+  line: number;
+}
+
 /** Receives lines in file order; `text[start, end)` is line `line` (1-based) without its terminator. */
 export interface LineSink {
   lineAdd(text: string, start: number, end: number, line: number): void;
   lineUndecodable(line: number): void;
+  /**
+   * Optional bulk form, for a sink that finds line ends as it parses: take every complete line of
+   * `text` from `from` (a line is complete once its LF is in `text`; a CR before the LF is not part
+   * of the line), advance `cursor.line` past them, and return where the unfinished tail starts.
+   */
+  linesAdd?(text: string, from: number, cursor: LineCursor): number;
 }
 
 const LF = '\n';
@@ -23,6 +34,7 @@ export class LineSplitter implements TextTarget {
   private carry = '';
   private lineCount = 0;
   private started = false;
+  private readonly cursor: LineCursor = { line: 0 };
 
   constructor(private readonly sink: LineSink) {}
 
@@ -56,6 +68,13 @@ export class LineSplitter implements TextTarget {
    */
   private linesEmit(text: string, from: number): number {
     const sink = this.sink;
+    if (sink.linesAdd !== undefined) {
+      const cursor = this.cursor;
+      cursor.line = this.lineCount;
+      const tail = sink.linesAdd(text, from, cursor);
+      this.lineCount = cursor.line;
+      return tail;
+    }
     let line = this.lineCount;
     let start = from;
     let newline = text.indexOf(LF, start);

@@ -18,9 +18,9 @@ const NODES_MAX = 4096;
 
 /**
  * Interns tags straight from the line they sit in, so the million tags of a big file cost no string
- * allocation each. A caller scanning a tag anyway walks the trie as it goes, from the tag's last code
- * unit backwards (the way the column reader reads a line's last column), and lands on the entry with
- * no string compare. Tags off the trie (new, non-ASCII, or past the cap) go through `lookup`.
+ * allocation each. A caller scanning a tag anyway walks the trie as it goes (`trie`, `entries`) and
+ * lands on the entry with no string compare. Tags off the trie (new, non-ASCII, or past the cap) go
+ * through `lookup`, which files them.
  */
 export class TagTable {
   /** Child links, one row of `TRIE_WIDTH` per node; a typed array keeps each step one plain load. */
@@ -29,7 +29,18 @@ export class TagTable {
   readonly entries: (TagEntry | undefined)[] = [undefined, undefined];
   private readonly byTag = new Map<string, TagEntry>();
 
-  /** The entry for `text[start, end)` (non-empty). */
+  /** The entry for `text[start, end)` (non-empty), by trie walk when it can. */
+  find(text: string, start: number, end: number): TagEntry {
+    const trie = this.trie;
+    let node = TRIE_ROOT;
+    for (let i = start; i < end && node !== 0; i++) {
+      const code = text.charCodeAt(i);
+      node = code < TRIE_WIDTH ? (trie[node * TRIE_WIDTH + code] ?? 0) : 0;
+    }
+    return this.entries[node] ?? this.lookup(text, start, end);
+  }
+
+  /** The entry for `text[start, end)` (non-empty), off the trie. */
   lookup(text: string, start: number, end: number): TagEntry {
     const tag = text.slice(start, end);
     let entry = this.byTag.get(tag);
@@ -46,7 +57,7 @@ export class TagTable {
     for (let i = 0; i < tag.length; i++) if (tag.charCodeAt(i) >= TRIE_WIDTH) return;
     if (this.entries.length + tag.length > NODES_MAX) return;
     let node = TRIE_ROOT;
-    for (let i = tag.length - 1; i >= 0; i--) {
+    for (let i = 0; i < tag.length; i++) {
       const cell = node * TRIE_WIDTH + tag.charCodeAt(i);
       let child = this.trie[cell] ?? 0;
       if (child === 0) {
