@@ -15,7 +15,7 @@ import {
 } from './reader';
 import type { LineCursor } from './lines';
 import { SchemeEvidence } from './scheme-evidence';
-import { TagTable, TRIE_ROOT, TRIE_WIDTH, type TagEntry } from './tag-table';
+import { TagTable, TRIE_ROOT, TRIE_SHIFT, TRIE_WIDTH, type TagEntry } from './tag-table';
 
 export interface ColumnsReadOptions extends UtteranceSinkOption {
   /** The file's scheme; detected from the tags when absent (see `SchemeEvidence`). */
@@ -124,13 +124,13 @@ class ColumnsParser implements LineParser {
         // The tag, walked down the tag table's trie; it must end the line.
         const tagStart = i;
         const trie = this.tagTable.trie;
-        let node = TRIE_ROOT;
+        let row = TRIE_ROOT;
         for (; i < length; i++) {
           code = text.charCodeAt(i);
           if (code <= SPACE) break;
-          node = code < TRIE_WIDTH ? (trie[node * TRIE_WIDTH + code] ?? 0) : 0;
+          row = code < TRIE_WIDTH ? (trie[row + code] ?? 0) : 0;
         }
-        const entry = entries[node];
+        const entry = entries[row >> TRIE_SHIFT];
         if (i === tagStart || i === length || entry === undefined) break fast;
         if (code === CR && i + 1 < length && text.charCodeAt(i + 1) === LF) i++;
         else if (code !== LF) break fast;

@@ -1,7 +1,16 @@
+import { NonAsciiFinder } from './ascii-runs';
 import type { TextTarget } from './lines';
 
 const LF = 0x0a;
 const EMPTY = new Uint8Array(0);
+/** ASCII lines closer than this to a line with other characters are decoded along with it (fewer, larger pieces). */
+const MIXED_GAP = 256;
+
+/** Index just past the LF ending the line that holds `at`, or the end of `bytes`. */
+function lineEnd(bytes: Uint8Array, at: number): number {
+  const newline = bytes.indexOf(LF, at);
+  return newline < 0 ? bytes.length : newline + 1;
+}
 
 function bytesConcat(parts: readonly Uint8Array[]): Uint8Array {
   if (parts.length === 1) return parts[0] ?? EMPTY;
@@ -37,9 +46,15 @@ export class ByteLineDecoder {
       this.pending.push(chunk.slice());
       return;
     }
-    const region = bytesConcat([...this.pending, chunk.subarray(0, lastNewline + 1)]);
+    // Only the line that straddles the chunk edge is joined; the rest is decoded in place, uncopied.
+    let from = 0;
+    if (this.pending.length > 0) {
+      const firstNewline = chunk.indexOf(LF);
+      this.regionDecode(bytesConcat([...this.pending, chunk.subarray(0, firstNewline + 1)]));
+      from = firstNewline + 1;
+    }
     this.pending = lastNewline + 1 < chunk.length ? [chunk.slice(lastNewline + 1)] : [];
-    this.regionDecode(region);
+    if (from <= lastNewline) this.regionDecode(chunk.subarray(from, lastNewline + 1));
   }
 
   end(): void {
@@ -47,12 +62,40 @@ export class ByteLineDecoder {
     this.pending = [];
   }
 
+  /**
+   * Decode whole lines. Runs of pure-ASCII lines are decoded apart from lines with other characters
+   * (and the ASCII lines close to them, up to `MIXED_GAP` bytes): the engine makes one-byte strings
+   * of the former, which decode several times faster and are quicker to scan for everyone after.
+   * UTF-8 never puts an LF inside a character, so decoding line runs apart changes no text.
+   */
   private regionDecode(region: Uint8Array): void {
+    const length = region.length;
+    const finder = new NonAsciiFinder(region);
+    let start = 0;
+    let other = finder.find(0, length);
+    while (other >= 0) {
+      const mixedStart = region.lastIndexOf(LF, other) + 1;
+      let mixedEnd = lineEnd(region, other);
+      for (;;) {
+        other = finder.find(mixedEnd, Math.min(length, mixedEnd + MIXED_GAP));
+        if (other < 0) break;
+        mixedEnd = lineEnd(region, other);
+      }
+      if (mixedStart > start) this.blockDecode(region.subarray(start, mixedStart));
+      this.blockDecode(region.subarray(mixedStart, mixedEnd));
+      start = mixedEnd;
+      other = finder.find(start, length);
+    }
+    if (start < length) this.blockDecode(start === 0 ? region : region.subarray(start));
+  }
+
+  /** Decode whole lines strictly in one go; only when that fails line by line, so a bad line is reported and the rest kept. */
+  private blockDecode(block: Uint8Array): void {
     let text: string;
     try {
-      text = this.strict.decode(region);
+      text = this.strict.decode(block);
     } catch {
-      this.linesDecode(region);
+      this.linesDecode(block);
       return;
     }
     this.target.push(text);

@@ -9,10 +9,13 @@ export interface TagEntry {
   kind: number;
 }
 
-/** Trie rows are indexed by ASCII code unit: `trie[node * TRIE_WIDTH + code]` is the child node. */
-export const TRIE_WIDTH = 128;
-/** The trie's root node; node 0 is "no such tag on the trie" and its row stays all zero. */
-export const TRIE_ROOT = 1;
+/**
+ * The trie is rows of `TRIE_WIDTH` cells, one per ASCII code unit; a node is known by where its row
+ * starts, so a step is `row = trie[row + code]`. Row 0 means "no such tag on the trie" and stays all zero.
+ */
+export const TRIE_SHIFT = 7;
+export const TRIE_WIDTH = 1 << TRIE_SHIFT;
+export const TRIE_ROOT = TRIE_WIDTH;
 /** Trie size cap: a file of countless distinct (say malformed) tags falls back to the map, memory stays bounded. */
 const NODES_MAX = 4096;
 
@@ -23,21 +26,21 @@ const NODES_MAX = 4096;
  * through `lookup`, which files them.
  */
 export class TagTable {
-  /** Child links, one row of `TRIE_WIDTH` per node; a typed array keeps each step one plain load. */
+  /** Child links (see `TRIE_WIDTH`); a typed array keeps each step one plain load. */
   trie = new Int32Array(64 * TRIE_WIDTH);
-  /** The entry a trie node stands for, by node. */
+  /** The entry a trie node stands for, by node number (`row >> TRIE_SHIFT`). */
   readonly entries: (TagEntry | undefined)[] = [undefined, undefined];
   private readonly byTag = new Map<string, TagEntry>();
 
   /** The entry for `text[start, end)` (non-empty), by trie walk when it can. */
   find(text: string, start: number, end: number): TagEntry {
     const trie = this.trie;
-    let node = TRIE_ROOT;
-    for (let i = start; i < end && node !== 0; i++) {
+    let row = TRIE_ROOT;
+    for (let i = start; i < end && row !== 0; i++) {
       const code = text.charCodeAt(i);
-      node = code < TRIE_WIDTH ? (trie[node * TRIE_WIDTH + code] ?? 0) : 0;
+      row = code < TRIE_WIDTH ? (trie[row + code] ?? 0) : 0;
     }
-    return this.entries[node] ?? this.lookup(text, start, end);
+    return this.entries[row >> TRIE_SHIFT] ?? this.lookup(text, start, end);
   }
 
   /** The entry for `text[start, end)` (non-empty), off the trie. */
@@ -56,18 +59,18 @@ export class TagTable {
     const tag = entry.tag;
     for (let i = 0; i < tag.length; i++) if (tag.charCodeAt(i) >= TRIE_WIDTH) return;
     if (this.entries.length + tag.length > NODES_MAX) return;
-    let node = TRIE_ROOT;
+    let row = TRIE_ROOT;
     for (let i = 0; i < tag.length; i++) {
-      const cell = node * TRIE_WIDTH + tag.charCodeAt(i);
+      const cell = row + tag.charCodeAt(i);
       let child = this.trie[cell] ?? 0;
       if (child === 0) {
-        child = this.entries.push(undefined) - 1;
+        child = (this.entries.push(undefined) - 1) * TRIE_WIDTH;
         this.trieGrow();
         this.trie[cell] = child;
       }
-      node = child;
+      row = child;
     }
-    this.entries[node] = entry;
+    this.entries[row >> TRIE_SHIFT] = entry;
   }
 
   private trieGrow(): void {
