@@ -17,7 +17,13 @@ const CHUNK_BYTES = 1 << 20;
 
 type ReaderMade = { ok: true; format: string; reader: DocumentReader } | { ok: false; message: string };
 
-function readerCreate(path: string, head: Uint8Array, options: LoadOptions, onUtterance?: (u: Utterance) => void): ReaderMade {
+/** Reading choices a command makes for itself (not flags the user gives). */
+export interface ReadChoices {
+  /** `false`: column files are read without token ranges (see `ColumnsReadOptions.tokenRanges`). */
+  tokenRanges?: boolean;
+}
+
+function readerCreate(path: string, head: Uint8Array, options: LoadOptions, onUtterance?: (u: Utterance) => void, choices: ReadChoices = {}): ReaderMade {
   let format: string = options.from ?? '';
   let scheme = options.scheme;
   if (format === 'iob1' || format === 'iob2' || format === 'bioes') {
@@ -28,7 +34,7 @@ function readerCreate(path: string, head: Uint8Array, options: LoadOptions, onUt
   const common = { ...(scheme !== undefined && { scheme }), ...(onUtterance !== undefined && { onUtterance }) };
   switch (format) {
     case 'columns':
-      return { ok: true, format, reader: columnsReader(common) };
+      return { ok: true, format, reader: columnsReader({ ...common, ...(choices.tokenRanges === false && { tokenRanges: false }) }) };
     case 'jsonl':
       return { ok: true, format, reader: jsonlReader(common) };
     case 'text':
@@ -50,7 +56,7 @@ function readerCreate(path: string, head: Uint8Array, options: LoadOptions, onUt
  * Read a file in the format asked for, or the one its name and first bytes suggest. The file is
  * streamed in 1 MiB chunks; with `onUtterance` each utterance goes to the caller and is not kept.
  */
-export function documentLoad(path: string, options: LoadOptions, onUtterance?: (u: Utterance) => void): Loaded {
+export function documentLoad(path: string, options: LoadOptions, onUtterance?: (u: Utterance) => void, choices: ReadChoices = {}): Loaded {
   let fd: number;
   try {
     fd = openSync(path, 'r');
@@ -62,7 +68,7 @@ export function documentLoad(path: string, options: LoadOptions, onUtterance?: (
     // The decoder copies what it keeps between pushes, so one buffer serves every chunk.
     const buffer = new Uint8Array(CHUNK_BYTES);
     let length = readSync(fd, buffer, 0, CHUNK_BYTES, null);
-    const made = readerCreate(path, buffer.subarray(0, length), options, onUtterance);
+    const made = readerCreate(path, buffer.subarray(0, length), options, onUtterance, choices);
     if (!made.ok) return made;
     while (length > 0) {
       made.reader.push(buffer.subarray(0, length));

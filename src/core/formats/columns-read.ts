@@ -20,6 +20,12 @@ import { TagTable, TRIE_ROOT, TRIE_SHIFT, TRIE_WIDTH, type TagEntry } from './ta
 export interface ColumnsReadOptions extends UtteranceSinkOption {
   /** The file's scheme; detected from the tags when absent (see `SchemeEvidence`). */
   scheme?: Scheme;
+  /**
+   * `false` leaves each utterance's `tokens` empty, and its `text` '' when the file gives none: for
+   * consumers that need only tags and lines (the CLI's `check`), it spares an object per token.
+   * Tokens are still placed in `# text`, so the errors are exactly those of a full read.
+   */
+  tokenRanges?: boolean;
 }
 
 const SPACE = 32;
@@ -54,6 +60,7 @@ class ColumnsParser implements LineParser {
   private readonly tagTable = new TagTable();
   private readonly evidence = new SchemeEvidence();
   private readonly scheme: Scheme | undefined;
+  private readonly ranges: boolean;
   /** Tags of a higher kind are rejected: malformed ones always, E-/S- when the scheme is IOB1 or IOB2. */
   private readonly kindMax: number;
   private readonly emit: (utterance: Utterance) => void;
@@ -82,6 +89,7 @@ class ColumnsParser implements LineParser {
 
   constructor(options: ColumnsReadOptions) {
     this.scheme = options.scheme;
+    this.ranges = options.tokenRanges ?? true;
     this.kindMax = this.scheme === 'iob1' || this.scheme === 'iob2' ? KIND_I : KIND_S;
     this.emit = utteranceSink(options, this.utterances);
   }
@@ -202,12 +210,14 @@ class ColumnsParser implements LineParser {
     else if (this.scheme === undefined) this.evidence.tagAdd(entry.parsed as ParsedTag);
     const length = firstEnd - first;
     if (this.textSource === undefined) {
-      this.tokenTexts.push(text.slice(first, firstEnd));
-      this.tokens.push({ start: this.offset, end: this.offset + length });
+      if (this.ranges) {
+        this.tokenTexts.push(text.slice(first, firstEnd));
+        this.tokens.push({ start: this.offset, end: this.offset + length });
+      }
       this.offset += length + 1;
     } else if (matchedAt >= 0) {
       const at = matchedAt - this.textBase;
-      this.tokens.push({ start: at, end: at + length });
+      if (this.ranges) this.tokens.push({ start: at, end: at + length });
       this.offset = at + length;
     } else {
       this.tokenLocate(text, first, firstEnd, line);
@@ -253,7 +263,7 @@ class ColumnsParser implements LineParser {
       );
       return;
     }
-    this.tokens.push({ start: at, end: at + token.length });
+    if (this.ranges) this.tokens.push({ start: at, end: at + token.length });
     this.offset = at + token.length;
   }
 

@@ -56,3 +56,25 @@ describe('columns reader: fast path and general line parser agree', () => {
     expect(doc.utterances[0]?.tags[0]).toBe(doc.utterances[1]?.tags[0]);
   });
 });
+
+describe('columns reader without token ranges', () => {
+  it('gives the same errors, tags, lines, ids, intents, meta and `# text`, with no tokens', () => {
+    fc.assert(
+      fc.property(fileArbitrary, (file) => {
+        const full = columnsRead(file, { scheme: 'iob2' });
+        const lean = columnsRead(file, { scheme: 'iob2', tokenRanges: false });
+        expect(lean.errors).toEqual(full.errors);
+        expect(lean.scheme).toBe(full.scheme);
+        expect(lean.utterances).toHaveLength(full.utterances.length);
+        lean.utterances.forEach((u, i) => {
+          const f = full.utterances[i];
+          expect(u.tokens).toEqual([]);
+          expect({ ...u, tokens: [], text: '' }).toEqual({ ...f, tokens: [], text: '' });
+          // A given `# text` is kept; only text joined from tokens is left out.
+          if (u.text !== '') expect(u.text).toBe(f?.text);
+        });
+      }),
+      { seed: 42, numRuns: 300 },
+    );
+  });
+});
