@@ -2,6 +2,7 @@ import { KIND_I, KIND_S } from '../rules/tagKinds';
 import { SCHEME_PREFIXES, type ParsedTag } from '../schemes';
 import type { Document, ReadError, Scheme, Token, Utterance } from '../types';
 import { commentBounds, lineIsComment, type CommentBounds } from './columns-comment';
+import { KEY_ID, KEY_INTENT, KEY_TEXT, RESERVED_PREFIXES, reservedCommentKey } from './columns-reserved';
 import {
   documentRead,
   errorsSort,
@@ -150,7 +151,15 @@ class ColumnsParser implements LineParser {
       const newline = text.indexOf('\n', start);
       if (newline < 0) break;
       const end = newline > start && text.charCodeAt(newline - 1) === CR ? newline - 1 : newline;
-      this.lineAdd(text, start, end, ++line);
+      line++;
+      // `# id = `, `# intent = ` and `# text = ` before the first token line need no further parsing.
+      const key = code === HASH && this.tokenLines.length === 0 ? reservedCommentKey(text, start) : -1;
+      if (key < 0) {
+        this.lineAdd(text, start, end, line);
+      } else {
+        if (this.blockLine === 0) this.blockStart(line);
+        this.reservedSet(key, text, start + (RESERVED_PREFIXES[key]?.length ?? 0), end, line);
+      }
       start = newline + 1;
     }
     cursor.line = line;
@@ -275,23 +284,32 @@ class ColumnsParser implements LineParser {
     if (this.blockLine === 0) this.blockStart(line);
     const bounds = this.bounds;
     if (!commentBounds(text, start, end, bounds)) return;
-    const { keyStart, keyEnd } = bounds;
-    const value = text.slice(bounds.valueStart, end);
+    const { keyStart, keyEnd, valueStart } = bounds;
     // The three reserved keys are recognised in place: a million-line file has hundreds of thousands.
-    if (keyEnd - keyStart === 2 && text.startsWith('id', keyStart)) this.id = value;
-    else if (keyEnd - keyStart === 6 && text.startsWith('intent', keyStart)) this.intent = value;
-    else if (keyEnd - keyStart === 4 && text.startsWith('text', keyStart)) {
-      this.text = value;
-      this.textSource = text;
-      this.textBase = bounds.valueStart;
-      this.textEnd = end;
-      this.textLine = line;
-    } else {
+    if (keyEnd - keyStart === 2 && text.startsWith('id', keyStart)) this.reservedSet(KEY_ID, text, valueStart, end, line);
+    else if (keyEnd - keyStart === 6 && text.startsWith('intent', keyStart)) this.reservedSet(KEY_INTENT, text, valueStart, end, line);
+    else if (keyEnd - keyStart === 4 && text.startsWith('text', keyStart)) this.reservedSet(KEY_TEXT, text, valueStart, end, line);
+    else {
       this.meta ??= {};
       const key = text.slice(keyStart, keyEnd);
+      const value = text.slice(valueStart, end);
       // Assigning "__proto__" would replace the prototype; it must stay a plain entry.
       if (key === '__proto__') Object.defineProperty(this.meta, key, { value, enumerable: true, writable: true, configurable: true });
       else this.meta[key] = value;
+    }
+  }
+
+  /** `# id`, `# intent` or `# text` (`key`, see `RESERVED_PREFIXES`) with its value at `text[valueStart, end)`. */
+  private reservedSet(key: number, text: string, valueStart: number, end: number, line: number): void {
+    const value = text.slice(valueStart, end);
+    if (key === KEY_ID) this.id = value;
+    else if (key === KEY_INTENT) this.intent = value;
+    else {
+      this.text = value;
+      this.textSource = text;
+      this.textBase = valueStart;
+      this.textEnd = end;
+      this.textLine = line;
     }
   }
 
