@@ -66,7 +66,8 @@ export class ByteLineDecoder {
    * Decode whole lines. Runs of pure-ASCII lines are decoded apart from lines with other characters
    * (and the ASCII lines close to them, up to `MIXED_GAP` bytes): the engine makes one-byte strings
    * of the former, which decode several times faster and are quicker to scan for everyone after.
-   * UTF-8 never puts an LF inside a character, so decoding line runs apart changes no text.
+   * UTF-8 never puts an LF inside a character (every byte of a multi-byte one is ≥ 0x80: RFC 3629
+   * section 3, from memory), so decoding line runs apart changes no text.
    */
   private regionDecode(region: Uint8Array): void {
     const length = region.length;
