@@ -1,16 +1,7 @@
 import AxeBuilder from '@axe-core/playwright';
-import { expect, test, type Page } from '@playwright/test';
+import { expect, test } from '@playwright/test';
+import { watchOrigins } from './helpers';
 
-// Every request the page makes must stay on the local server (local-first: no data leaves the machine).
-function watchOrigins(page: Page, baseURL: string): string[] {
-  const foreign: string[] = [];
-  const origin = new URL(baseURL).origin;
-  page.on('request', (request) => {
-    const url = new URL(request.url());
-    if (url.protocol !== 'data:' && url.protocol !== 'blob:' && url.origin !== origin) foreign.push(request.url());
-  });
-  return foreign;
-}
 
 test('create, rename and delete a project; it survives a reload (real IndexedDB)', async ({ page, baseURL }) => {
   const foreign = watchOrigins(page, baseURL ?? '');
