@@ -2,7 +2,6 @@ import AxeBuilder from '@axe-core/playwright';
 import { expect, test } from '@playwright/test';
 import { watchOrigins } from './helpers';
 
-
 test('create, rename and delete a project; it survives a reload (real IndexedDB)', async ({ page, baseURL }) => {
   const foreign = watchOrigins(page, baseURL ?? '');
   await page.goto('/');
