@@ -103,25 +103,33 @@ test('the demo project is one click away, with both annotators’ layers', async
   const foreign = watchOrigins(page, baseURL ?? '');
   const a = expected('sample-corpus/ann-a.iob2').utterances;
   const b = expected('sample-corpus/ann-b.iob2').utterances;
+  // ann-b attaches its layers to the utterances ann-a already brought in under the same id.
+  const idsA = new Set(columnsRead(readFileSync('sample-corpus/ann-a.iob2')).utterances.map((u) => u.id));
+  const shared = columnsRead(readFileSync('sample-corpus/ann-b.iob2')).utterances.filter((u) => idsA.has(u.id)).length;
+  expect(shared).toBeGreaterThan(0);
   await page.goto('/');
   await page.getByRole('button', { name: /Try the demo project/ }).click();
   await expect(page.getByRole('heading', { name: 'Bring in data to Home-repair demo' })).toBeVisible();
-  await expect(page.getByText(`This project holds ${fmt(a + b)} utterances`)).toBeVisible();
-  const layers = await page.evaluate(
+  await expect(page.getByText(`This project holds ${fmt(a + b - shared)} utterances`)).toBeVisible();
+  const stored = await page.evaluate(
     () =>
-      new Promise<Record<string, number>>((resolve, reject) => {
+      new Promise<{ layers: Record<string, number>; twoLayers: number }>((resolve, reject) => {
         const open = indexedDB.open('slotsmith');
         open.onerror = () => reject(open.error);
         open.onsuccess = () => {
           const get = open.result.transaction('layers').objectStore('layers').getAll();
           get.onsuccess = () => {
-            const counts: Record<string, number> = {};
-            for (const l of get.result as { annotator: string }[]) counts[l.annotator] = (counts[l.annotator] ?? 0) + 1;
-            resolve(counts);
+            const layers: Record<string, number> = {};
+            const perUtterance = new Map<number, number>();
+            for (const l of get.result as { annotator: string; utteranceId: number }[]) {
+              layers[l.annotator] = (layers[l.annotator] ?? 0) + 1;
+              perUtterance.set(l.utteranceId, (perUtterance.get(l.utteranceId) ?? 0) + 1);
+            }
+            resolve({ layers, twoLayers: [...perUtterance.values()].filter((n) => n === 2).length });
           };
         };
       }),
   );
-  expect(layers).toEqual({ 'ann-a': a, 'ann-b': b });
+  expect(stored).toEqual({ layers: { 'ann-a': a, 'ann-b': b }, twoLayers: shared });
   expect(foreign).toEqual([]);
 });

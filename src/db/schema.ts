@@ -9,6 +9,7 @@
  *   paging and as the stable reference inside backups.
  * - Layers are keyed [utteranceId+annotator]; the index [projectId+annotator+status] serves both
  *   "one annotator's layers" (prefix) and progress counts by status without reading rows.
+ * - `[projectId+externalId]` (version 2) is not unique: files without ids, or repeating one, stay importable.
  * - Gold and model layers have no annotator row: the annotators table lists people only.
  * - Durability: every read-write transaction of an instance is 'strict' by default. Dexie 4 takes
  *   durability per database (`chromeTransactionDurability`), not per transaction, and label edits
@@ -54,6 +55,8 @@ export interface AnnotatorRow extends AnnotatorInfo {
 export interface BatchRow extends BatchInfo {
   id: number;
   projectId: number;
+  /** Utterances of the file that matched an existing one and only got a layer (not in `counts.utterances`). */
+  attached?: number;
 }
 
 export interface HistoryRow {
@@ -83,6 +86,13 @@ export const SCHEMA_VERSIONS: readonly SchemaVersion[] = [
       annotators: '[projectId+id]',
       batches: '++id, projectId, state',
       history: '++id, projectId, [utteranceId+annotator]',
+    },
+  },
+  {
+    // [projectId+externalId] finds the utterance a second annotator's file labels (attach on import).
+    version: 2,
+    stores: {
+      utterances: '++id, &[projectId+seq], source.batchId, [projectId+externalId]',
     },
   },
 ];

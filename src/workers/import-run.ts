@@ -56,6 +56,8 @@ export interface ImportSummary {
   utterances: number;
   tokens: number;
   layers: number;
+  /** Utterances that matched an existing one by id (same text and tokens) and only got a layer. */
+  attached: number;
   annotator: string | null;
   labelsAdded: { slots: string[]; intents: string[] };
 }
@@ -123,7 +125,8 @@ export async function importCommit(db: SlotsmithDb, file: Blob, request: CommitR
         if (cancelled()) throw new ImportCancelledError();
         const chunk = pending.slice(from, from + IMPORT_CHUNK_UTTERANCES);
         from += chunk.length;
-        await batchAppend(db, batchId, { utterances: chunk });
+        // Labelled files attach by id, so a second annotator's file of the same utterances adds layers, not rows.
+        await batchAppend(db, batchId, meta.annotator === undefined ? { utterances: chunk } : { utterances: chunk, attach: 'external-id' });
         stored += chunk.length;
         control.onProgress?.({ phase: 'storing', done: stored, total: Math.max(request.total, stored) });
       }
@@ -151,7 +154,7 @@ export async function importCommit(db: SlotsmithDb, file: Blob, request: CommitR
         await projectSchemaSet(db, request.projectId, schemaWithLabels(current.schema, labelsAdded));
       }
       const done = await batchFinish(db, batchId, { utterances: read });
-      return { batchId, utterances: stored, tokens, layers: done.counts.layers, annotator: meta.annotator ?? null, labelsAdded };
+      return { batchId, utterances: stored, tokens, layers: done.counts.layers, attached: done.attached ?? 0, annotator: meta.annotator ?? null, labelsAdded };
     } catch (error) {
       const isCancel = error instanceof ImportCancelledError;
       await batchRollback(db, batchId, { state: isCancel ? 'cancelled' : 'failed', failure: (error as Error).message });

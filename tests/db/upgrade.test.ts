@@ -9,12 +9,14 @@
  *   1. append version N+1 (stores + upgrade) to SCHEMA_VERSIONS in src/db/schema.ts; never edit older ones;
  *   2. write v<N+1>-sample.json from a database made by the new code, and commit it frozen;
  *   3. add a case below for it, and keep every older case passing: they prove old data still opens.
- * Today the current version is 1, so the v1 case checks that v1 data loads as written.
+ * Version 2 added the [projectId+externalId] index (attach on import); the v1 cases check that v1
+ * data loads as written and that the new index covers the old rows.
  */
 import { readdirSync, readFileSync } from 'node:fs';
 import { IDBFactory } from 'fake-indexeddb';
 import { describe, expect, it } from 'vitest';
 import { backupMake } from '../../src/db/backup-repo';
+import { batchAppend, batchBegin, batchFinish } from '../../src/db/batch-repo';
 import { layerGet, layerHistory, layerSave } from '../../src/db/layer-repo';
 import { projectList } from '../../src/db/project-repo';
 import { annotatorList } from '../../src/db/annotator-repo';
@@ -23,7 +25,7 @@ import { tokensUnpack } from '../../src/db/tokens';
 import { projectCounts, utterancePage } from '../../src/db/utterance-repo';
 import { tokeniseWhitespace } from '../../src/core/tokenise';
 import { dbLoad, type Dump } from './dump';
-import { dbTest } from './helpers';
+import { dbTest, utteranceMake } from './helpers';
 
 const FIXTURES = new URL('../fixtures/db/', import.meta.url);
 
@@ -96,6 +98,51 @@ describe('schema upgrades', () => {
     const saved = await layerSave(db, [id(4), 'ana'], { status: 'flagged' }, { expectedRevision: 1, who: 'ana' });
     expect(saved.revision).toBe(2);
     expect((await backupMake(db, 1)).parts.length).toBe(1 + 1 + 2 + 3 + 5 + 5 + 3);
+    db.close();
+  });
+
+  it('indexes version 1 utterances by external id after the upgrade to 2, so a new file attaches to them', async () => {
+    const db = await dbUpgradedFrom(1);
+    const byId = await db.utterances.where('[projectId+externalId]').equals([1, 'hr-002']).toArray();
+    expect(byId.map((u) => [u.seq, u.text])).toEqual([[2, 'move it to Monday please']]);
+    // The utterance without an id (seq 3 in the fixture) is simply absent from the index.
+    expect(await db.utterances.where('[projectId+externalId]').between([1, ''], [1, '\uffff']).count()).toBe(
+      (await db.utterances.toArray()).filter((u) => u.externalId !== undefined).length,
+    );
+    const batchId = await batchBegin(db, 1, { fileName: 'ben.iob2', format: 'columns', annotator: 'ben' });
+    const result = await batchAppend(db, batchId, { utterances: [utteranceMake('move it to Monday please', ['O', 'O', 'O', 'B-day', 'O'], { id: 'hr-002' })], attach: 'external-id' });
+    expect(result).toMatchObject({ attached: 1, utteranceIds: [byId[0]?.id] });
+    await batchFinish(db, batchId, { utterances: 1 });
+    expect((await projectCounts(db, 1)).utterances).toBe(5);
+    expect((await layerGet(db, [byId[0]?.id as number, 'ben']))?.tags).toEqual(['O', 'O', 'O', 'B-day', 'O']);
+    db.close();
+  });
+
+  it('opens version 2 data with the current schema: one utterance, two annotators’ layers', async () => {
+    const db = await dbUpgradedFrom(2);
+    const [project] = await projectList(db);
+    expect(project).toMatchObject({ id: 1, name: 'Home repairs — south', scheme: 'iob2' });
+    const utterances = await utterancePage(db, 1, null, 10);
+    expect(utterances.map((u) => u.externalId)).toEqual(['hs-001', 'hs-002', 'hs-003', 'hs-004']);
+    for (const u of utterances) expect(tokensUnpack(u.tokens)).toEqual(tokeniseWhitespace(u.text));
+    const [first] = await db.utterances.where('[projectId+externalId]').equals([1, 'hs-001']).toArray();
+    expect(first?.seq).toBe(1);
+    expect((await layerGet(db, [first?.id as number, 'ann-a']))?.batchId).toBe(1);
+    expect((await layerGet(db, [first?.id as number, 'ann-b']))).toMatchObject({ batchId: 2, revision: 2 });
+    expect((await layerHistory(db, [first?.id as number, 'ann-b']))[0]?.before?.tags).toEqual(['O', 'O', 'B-service', 'O', 'B-area', 'I-area', 'B-day']);
+    expect(await db.batches.toArray()).toEqual([
+      expect.objectContaining({ id: 1, state: 'done', counts: { utterances: 3, tokens: 19, layers: 3 } }),
+      expect.objectContaining({ id: 2, state: 'done', counts: { utterances: 1, tokens: 5, layers: 3 }, attached: 2 }),
+      expect.objectContaining({ id: 3, state: 'cancelled', attached: 1 }),
+    ]);
+    expect(await projectCounts(db, 1)).toEqual({
+      utterances: 4,
+      layers: {
+        'ann-a': { unlabelled: 0, draft: 0, done: 3, skipped: 0, flagged: 0 },
+        'ann-b': { unlabelled: 0, draft: 0, done: 3, skipped: 0, flagged: 0 },
+        gold: { unlabelled: 0, draft: 0, done: 1, skipped: 0, flagged: 0 },
+      },
+    });
     db.close();
   });
 });

@@ -11,6 +11,7 @@ import { dbTest } from '../db/helpers';
 
 const root = new URL('../../', import.meta.url);
 const annA = readFileSync(new URL('sample-corpus/ann-a.iob2', root));
+const annB = readFileSync(new URL('sample-corpus/ann-b.iob2', root));
 const malformed = readFileSync(new URL('tests/fixtures/cli/malformed.iob2', root));
 
 async function projectMake(db: SlotsmithDb, schema = { slots: [{ name: 'service' }], intents: [{ name: 'book_visit' }] }) {
@@ -164,6 +165,41 @@ describe('importCommit', () => {
     const batches = await db.batches.toArray();
     expect(batches.map((b) => b.state)).toEqual(['cancelled']);
     expect(locks).toEqual([`slotsmith-import-${batches[0]?.id}`]);
+  });
+
+  it('a second annotator’s file of the same ids adds layers to the stored utterances, not new rows', async () => {
+    const db = dbTest();
+    const projectId = await projectMake(db);
+    const idsA = new Set(columnsRead(annA).utterances.map((u) => u.id));
+    const idsB = columnsRead(annB).utterances.map((u) => u.id);
+    const shared = idsB.filter((id) => idsA.has(id)).length;
+    expect(shared).toBeGreaterThan(0);
+    await importCommit(db, new Blob([annA]), { ...request(projectId, 'columns', 'ann-a.iob2', { annotator: 'ann-a' }), total: idsA.size });
+    const summary = await importCommit(db, new Blob([annB]), { ...request(projectId, 'columns', 'ann-b.iob2', { annotator: 'ann-b' }), total: idsB.length });
+    expect(summary).toMatchObject({ utterances: idsB.length, layers: idsB.length, attached: shared });
+    const counts = await projectCounts(db, projectId);
+    expect(counts.utterances).toBe(idsA.size + idsB.length - shared);
+    expect(counts.layers['ann-a']?.done).toBe(idsA.size);
+    expect(counts.layers['ann-b']?.done).toBe(idsB.length);
+    const perUtterance = new Map<number, number>();
+    await db.layers.each((l) => perUtterance.set(l.utteranceId, (perUtterance.get(l.utteranceId) ?? 0) + 1));
+    expect([...perUtterance.values()].filter((n) => n === 2).length).toBe(shared);
+  });
+
+  it('JSON Lines with "id" attach too; a changed text refuses the file and keeps the first import', async () => {
+    const db = dbTest();
+    const projectId = await projectMake(db);
+    const first = new Blob(['{"id":"j-1","text":"book a plumber","intent":"book_visit"}\n{"id":"j-2","text":"cancel my visit","intent":"cancel"}\n']);
+    await importCommit(db, first, { ...request(projectId, 'jsonl', 'a.jsonl', { annotator: 'ann-a' }), total: 2 });
+    const same = new Blob(['{"id":"j-2","text":"cancel my visit","intent":"cancel"}\n']);
+    expect(await importCommit(db, same, { ...request(projectId, 'jsonl', 'b.jsonl', { annotator: 'ann-b' }), total: 1 })).toMatchObject({ attached: 1 });
+    expect(await db.utterances.count()).toBe(2);
+    const changed = new Blob(['{"id":"j-1","text":"book an electrician","intent":"book_visit"}\n']);
+    const commit = importCommit(db, changed, { ...request(projectId, 'jsonl', 'c.jsonl', { annotator: 'ann-c' }), total: 1 });
+    await expect(commit).rejects.toThrow(/"j-1".*"book a plumber".*"book an electrician"/);
+    expect(await db.utterances.count()).toBe(2);
+    expect(await db.layers.count()).toBe(3);
+    expect((await db.batches.toArray()).map((b) => b.state)).toEqual(['done', 'done', 'failed']);
   });
 
   it('asks for an annotator when the file carries labels', async () => {
