@@ -10,6 +10,7 @@ import type { Utterance } from '../src/core/types';
 import { corpusGenerate } from '../scripts/corpus/generate';
 import { cliBuild } from '../scripts/build-cli.mjs';
 import { agreeBench } from './agree';
+import { browserBench } from './browser';
 import { measureInterleaved, runCapture } from './measure';
 
 const root = fileURLToPath(new URL('..', import.meta.url));
@@ -49,9 +50,14 @@ function row(label: string, seconds: number, rssMb: number | null, extra = ''): 
   return `  ${label.padEnd(34)} ${seconds.toFixed(3).padStart(8)} s ${rss} ${extra}`;
 }
 
-const only = process.env.BENCH_ONLY; // 'check' | 'convert' | 'agree': run one part only
+const only = process.env.BENCH_ONLY; // 'agree' | 'browser': run one part only
 
 async function main(): Promise<void> {
+  if (only === 'browser') {
+    mkdirSync(out, { recursive: true });
+    await browserBench({ root, out, count, seed });
+    return;
+  }
   await cliBuild();
   if (only === 'agree') {
     mkdirSync(out, { recursive: true });
@@ -104,6 +110,7 @@ async function main(): Promise<void> {
   if (!identical) process.exitCode = 1;
 
   agreeBench({ root, out, count, repeats, seed });
+  await browserBench({ root, out, count, seed });
 }
 
 await main();

@@ -1,0 +1,92 @@
+/**
+ * The browser part of `npm run bench`: in one Chromium run, the raw IndexedDB put rate (the limit),
+ * the app's import of the 100k-utterance file through the real UI, the page heap after it, and the
+ * export of the same project through "Write out data". Numbers are printed, never asserted.
+ */
+import { existsSync, statSync, writeFileSync } from 'node:fs';
+import { chromium } from '@playwright/test';
+import { columnsWrite } from '../../src/core/formats';
+import type { Utterance } from '../../src/core/types';
+import { corpusGenerate } from '../../scripts/corpus/generate';
+import { appExport, appImport, heapAfterGc } from './app-flow';
+import { idbRawRate } from './idb-raw';
+import { distEnsure, previewStart } from './server';
+
+// As playwright.config.ts, plus --expose-gc so the page can collect before the heap is read.
+const CHROMIUM_ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--no-first-run',
+  '--js-flags=--expose-gc',
+];
+const HEAP_TARGET_MB = 150;
+
+export interface BrowserBenchOptions {
+  root: string;
+  out: string;
+  count: number;
+  seed: number;
+}
+
+/** The same file as run.ts's prepare() writes (annotated.iob2), reused when already there. */
+function fileEnsure({ out, count, seed }: BrowserBenchOptions): string {
+  const file = `${out}/annotated.iob2`;
+  if (existsSync(file)) return file;
+  const corpus = corpusGenerate({ seed, count });
+  const byId = new Map<string, Utterance>();
+  for (const layer of corpus.layers) for (const u of layer.utterances) if (u.id !== undefined && !byId.has(u.id)) byId.set(u.id, u);
+  writeFileSync(file, columnsWrite(corpus.truth.map((u) => ({ ...(byId.get(u.id ?? '') ?? u), meta: {} }))));
+  return file;
+}
+
+const mb = (bytes: number) => bytes / (1024 * 1024);
+const met = (ok: boolean) => (ok ? 'met' : 'NOT met');
+
+export async function browserBench(options: BrowserBenchOptions): Promise<void> {
+  const { root, count } = options;
+  const file = fileEnsure(options);
+  distEnsure(root);
+  const server = await previewStart(root);
+  const browser = await chromium.launch({ executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium', headless: true, args: CHROMIUM_ARGS });
+  try {
+    const context = await browser.newContext({ acceptDownloads: true });
+    const page = await context.newPage();
+    await page.goto(server.url);
+    console.log(`\n== browser: IndexedDB limit, app import/export of ${mb(statSync(file).size).toFixed(1)} MB IOB2 (Chromium headless, one run each)`);
+    const rawDefault = await idbRawRate(page, count, 'default');
+    const rawStrict = await idbRawRate(page, count, 'strict');
+    for (const r of [rawDefault, rawStrict]) {
+      console.log(`  raw IndexedDB put, ${r.durability.padEnd(7)} durability  ${r.seconds.toFixed(2).padStart(7)} s  ${r.perSecond.toFixed(0).padStart(7)} records/s (${r.records} records, 5,000 a transaction)`);
+    }
+
+    const imported = await appImport(page, server.url, file, 'Bench import');
+    const rate = imported.utterances / imported.seconds;
+    console.log(`  app preview (read + checks)          ${imported.previewSeconds.toFixed(2).padStart(7)} s`);
+    console.log(`  app import (Import → summary)        ${imported.seconds.toFixed(2).padStart(7)} s  ${rate.toFixed(0).padStart(7)} utterances/s (${imported.utterances} utterances)`);
+    // The app's own transactions are strict, so strict is the like-for-like limit; default is shown too.
+    for (const r of [rawStrict, rawDefault]) {
+      const ratio = rate / r.perSecond;
+      console.log(`  ratio import/raw ${r.durability.padEnd(7)}: ${ratio.toFixed(3)} (target ≥ 1/3: ${met(ratio >= 1 / 3)})`);
+    }
+
+    const heap = await heapAfterGc(page);
+    console.log(
+      `  page JS heap after import, after GC: ${heap.pageMb.toFixed(1)} MB used of ${heap.pageTotalMb.toFixed(1)} MB` +
+        `${heap.memoryApiMb === null ? '' : ` (performance.memory: ${heap.memoryApiMb.toFixed(1)} MB)`} (target ≤ ${HEAP_TARGET_MB} MB: ${met(heap.pageMb <= HEAP_TARGET_MB)})`,
+    );
+    console.log(`  the import/export worker's heap is separate and not included (${heap.workers} worker(s) alive after import)`);
+
+    const exported = await appExport(page, imported.annotator);
+    console.log(
+      `  app export IOB2, one annotator, done   ${exported.seconds.toFixed(2).padStart(7)} s  ${(mb(exported.bytes) / exported.seconds).toFixed(1)} MB/s output (${mb(exported.bytes).toFixed(1)} MB)` +
+        (exported.refused ? ', after the illegal-sequence refusal, written as they are' : ''),
+    );
+  } finally {
+    await browser.close();
+    server.stop();
+  }
+}
