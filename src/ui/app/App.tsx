@@ -7,6 +7,9 @@ import { appDb } from './db';
 import { projectViews } from './project-views';
 
 const VIEW_LABELS: Record<Exclude<View, 'projects'>, string> = {
+  corpus: 'Utterances',
+  label: 'Label',
+  schema: 'Slots and intents',
   import: 'Bring in data',
   export: 'Write out data',
   settings: 'Project settings',
@@ -36,6 +39,7 @@ export function App() {
   const notice = useStartupCleanup();
   let screen: ReactNode;
   const Restore = projectViews.restore;
+  const Profile = projectViews.profile;
   if (view === 'projects' || projectId === null) {
     const restore = <Restore onOpen={(id) => go('settings', id)} />;
     screen = <ProjectsView onOpen={(id) => go('import', id)} onDemo={projectViews.demoLoad} extra={restore} />;
@@ -51,6 +55,7 @@ export function App() {
           {PRODUCT_NAME} <span className="shell-version">v{__APP_VERSION__}</span>
         </h1>
         <p className="shell-tagline">Slot and intent labelling for chat utterances, kept on this machine.</p>
+        <Profile />
         <nav aria-label="Screens" className="shell-nav">
           <button type="button" aria-current={view === 'projects' ? 'page' : undefined} onClick={() => go('projects')}>
             All projects

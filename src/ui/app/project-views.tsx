@@ -1,7 +1,11 @@
 import type { ComponentType } from 'react';
+import { CorpusView } from '../features/corpus/CorpusView';
+import { ExportView } from '../features/export/ExportView';
 import { demoLoad } from '../features/import/demo-load';
 import { ImportView } from '../features/import/ImportView';
-import { ExportView } from '../features/export/ExportView';
+import { LabelView } from '../features/label/LabelView';
+import { ProfileBadge } from '../features/profile/ProfileBadge';
+import { SchemaView } from '../features/schema/SchemaView';
 import { RestoreBackup } from '../features/settings/RestoreBackup';
 import { SettingsView } from '../features/settings/SettingsView';
 
@@ -11,15 +15,24 @@ export interface ProjectViewProps {
 }
 
 export const projectViews: {
+  corpus: ComponentType<ProjectViewProps>;
+  label: ComponentType<ProjectViewProps>;
+  schema: ComponentType<ProjectViewProps>;
   import: ComponentType<ProjectViewProps>;
   export: ComponentType<ProjectViewProps>;
   settings: ComponentType<ProjectViewProps>;
   demoLoad: (() => Promise<number>) | undefined;
   restore: ComponentType<{ onOpen: (projectId: number) => void }>;
+  /** Who is labelling at this browser, shown in the header on every screen. */
+  profile: ComponentType;
 } = {
+  corpus: CorpusView,
+  label: LabelView,
+  schema: SchemaView,
   import: ImportView,
   export: ExportView,
   settings: SettingsView,
   demoLoad,
   restore: RestoreBackup,
+  profile: ProfileBadge,
 };

@@ -1,0 +1,11 @@
+import type { ProjectViewProps } from '../../app/project-views';
+
+// Placeholder replaced by the feature's own work in progress (issue 5); the route exists so the shell is wired once.
+export function SchemaView({ projectId }: ProjectViewProps) {
+  return (
+    <section aria-labelledby="SchemaView-title">
+      <h2 id="SchemaView-title">Slots and intents</h2>
+      <p>Project {projectId}: this screen is being built.</p>
+    </section>
+  );
+}
