@@ -14,7 +14,7 @@ function restrict(groups, message) {
 }
 
 export default tseslint.config(
-  { ignores: ['dist/**', 'dist-cli/**', 'node_modules/**', 'test-results/**', 'playwright-report/**', 'bench/out/**', 'sample-corpus/**'] },
+  { ignores: ['dist/**', 'dist-cli/**', 'node_modules/**', 'test-results/**', 'test-results-*/**', 'dist-e2e-*/**', 'playwright-report/**', 'bench/out/**', 'sample-corpus/**'] },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   {

@@ -12,6 +12,8 @@ const chromiumArgs = [
 ];
 
 const port = Number(process.env.SLOTSMITH_E2E_PORT ?? 4174);
+// A run on another port builds into its own folder and keeps its own results, so runs can overlap.
+const separate = process.env.SLOTSMITH_E2E_PORT !== undefined && port !== 4174;
 
 export default defineConfig({
   testDir: 'e2e',
@@ -21,6 +23,7 @@ export default defineConfig({
   // (stop note of 2026-12-02); it is a bug to find, not to hide, so local runs never retry.
   retries: process.env.CI ? 1 : 0,
   reporter: [['list']],
+  outputDir: separate ? `test-results-${port}` : 'test-results',
   timeout: 60_000,
   use: {
     baseURL: `http://127.0.0.1:${port}`,
@@ -31,7 +34,7 @@ export default defineConfig({
   webServer: {
     // The README's own command, so this run proves `npm start` serves a working page.
     command: 'node scripts/start.mjs',
-    env: { PORT: String(port) },
+    env: { PORT: String(port), ...(separate && { SLOTSMITH_OUT_DIR: `dist-e2e-${port}` }) },
     url: `http://127.0.0.1:${port}`,
     reuseExistingServer: false,
     timeout: 60_000,
