@@ -1,0 +1,4 @@
+export * from './content';
+export * from './selection';
+export * from './spans';
+export * from './undo';
