@@ -1,0 +1,56 @@
+import { describe, expect, it } from 'vitest';
+import type { SlotDef } from '../../../../src/core/backup/model';
+import { labelCommandFor, labelKeyHelp, slotKeyIsTaken, type KeyPress } from '../../../../src/ui/features/label/label-keys';
+
+const SLOTS: SlotDef[] = [
+  { name: 'day', key: 'd' },
+  { name: 'area', key: 'a' },
+  { name: 'time_window', key: 'D' },
+  { name: 'budget' },
+];
+
+const press = (key: string, mods: Partial<KeyPress> = {}): KeyPress => ({ key, shift: false, ctrl: false, alt: false, meta: false, ...mods });
+
+describe('labelCommandFor', () => {
+  it('arrows move, shift+arrows extend', () => {
+    expect(labelCommandFor(press('ArrowRight'), SLOTS)).toEqual({ kind: 'move', delta: 1, extend: false });
+    expect(labelCommandFor(press('ArrowLeft', { shift: true }), SLOTS)).toEqual({ kind: 'move', delta: -1, extend: true });
+    expect(labelCommandFor(press('End', { shift: true }), SLOTS)).toEqual({ kind: 'edge', to: 'last', extend: true });
+  });
+
+  it('a slot key labels in one press; the same letter with Ctrl or Alt is left to the browser', () => {
+    expect(labelCommandFor(press('d'), SLOTS)).toEqual({ kind: 'label', slot: 'day' });
+    expect(labelCommandFor(press('a'), SLOTS)).toEqual({ kind: 'label', slot: 'area' });
+    expect(labelCommandFor(press('d', { ctrl: true }), SLOTS)).toBeNull();
+    expect(labelCommandFor(press('a', { alt: true }), SLOTS)).toBeNull();
+    expect(labelCommandFor(press('q'), SLOTS)).toBeNull();
+  });
+
+  it('fixed keys win over a clashing slot key, which the help marks as taken', () => {
+    expect(labelCommandFor(press('D', { shift: true }), SLOTS)).toEqual({ kind: 'status', status: 'done' });
+    expect(slotKeyIsTaken('D')).toBe(true);
+    expect(slotKeyIsTaken('d')).toBe(false);
+    expect(slotKeyIsTaken('/')).toBe(true);
+    const help = labelKeyHelp(SLOTS);
+    expect(help.find((r) => r.keys === 'D')?.what).toMatch(/taken/);
+    expect(help.find((r) => r.keys === 'd')?.what).toBe('Label the selection as “day”');
+    expect(help.some((r) => r.what.includes('budget'))).toBe(false);
+  });
+
+  it('undo, redo (both spellings), help, status and navigation keys', () => {
+    expect(labelCommandFor(press('z', { ctrl: true }), SLOTS)).toEqual({ kind: 'undo' });
+    expect(labelCommandFor(press('Z', { ctrl: true, shift: true }), SLOTS)).toEqual({ kind: 'redo' });
+    expect(labelCommandFor(press('y', { meta: true }), SLOTS)).toEqual({ kind: 'redo' });
+    expect(labelCommandFor(press('?', { shift: true }), SLOTS)).toEqual({ kind: 'help' });
+    expect(labelCommandFor(press('/'), SLOTS)).toEqual({ kind: 'slotSearch' });
+    expect(labelCommandFor(press(']'), SLOTS)).toEqual({ kind: 'utterance', to: 'next' });
+    expect(labelCommandFor(press('N', { shift: true }), SLOTS)).toEqual({ kind: 'utterance', to: 'nextUnlabelled' });
+    expect(labelCommandFor(press('Backspace'), SLOTS)).toEqual({ kind: 'remove' });
+  });
+
+  it('every command of the table is listed in the help, each with words', () => {
+    const help = labelKeyHelp([]);
+    expect(help.length).toBeGreaterThanOrEqual(17);
+    for (const row of help) expect(row.what.length).toBeGreaterThan(5);
+  });
+});
