@@ -12,6 +12,7 @@ import {
   backupLayerEncode,
   backupProjectEncode,
   backupUtteranceEncode,
+  type BackupData,
   type BackupUtterance,
   type BatchInfo,
 } from '../core/backup';
@@ -95,16 +96,28 @@ export async function backupMake(db: SlotsmithDb, projectId: number): Promise<Ba
   });
 }
 
+/** A free project name for a restored copy: the original, else "… (restored)", "… (restored 2)"… */
+export function restoreNameFree(name: string, taken: ReadonlySet<string>): string {
+  if (!taken.has(name)) return name;
+  for (let n = 1; ; n++) {
+    const candidate = `${name} (restored${n === 1 ? '' : ` ${n}`})`;
+    if (!taken.has(candidate)) return candidate;
+  }
+}
+
+export interface BackupStoreOptions {
+  /** The new project's name; by default the backup's, made free of the names already taken. */
+  name?: string;
+}
+
 /**
- * Restore a backup as a new project, in one transaction: either the whole project appears or nothing
- * does. Invalid files are refused with line-numbered errors and store nothing.
+ * Store decoded backup data as a new project, in one transaction: either the whole project appears
+ * or nothing does. The free name is chosen inside it, so two restores at once cannot take the same.
  */
-export async function backupRestore(db: SlotsmithDb, text: string, options: { name?: string } = {}): Promise<BackupRestoreResult> {
-  const decoded = backupDecode(text);
-  if (!decoded.ok) return decoded;
-  const { data } = decoded;
-  const projectId = await dbWrite(db, dbTablesAll(db), async () => {
-    const projectId = await db.projects.add({ ...data.project, name: options.name ?? data.project.name });
+export async function backupStore(db: SlotsmithDb, data: BackupData, options: BackupStoreOptions = {}): Promise<{ projectId: number; name: string }> {
+  return dbWrite(db, dbTablesAll(db), async () => {
+    const name = options.name ?? restoreNameFree(data.project.name, new Set((await db.projects.toArray()).map((p) => p.name)));
+    const projectId = await db.projects.add({ ...data.project, name });
     await db.annotators.bulkAdd(data.annotators.map((a) => ({ ...a, projectId })));
     const batchIds = await db.batches.bulkAdd(
       data.batches.map((b) => ({ ...b, projectId }) as BatchRow),
@@ -134,7 +147,17 @@ export async function backupRestore(db: SlotsmithDb, text: string, options: { na
     await db.history.bulkAdd(
       data.history.map(({ seq, ...h }) => ({ ...h, projectId, utteranceId: idOf.get(seq) as number }) as HistoryRow),
     );
-    return projectId;
+    return { projectId, name };
   });
+}
+
+/**
+ * Restore a backup as a new project (see backupStore). Invalid files are refused with
+ * line-numbered errors and store nothing. Without a name, the backup's own name is kept as is.
+ */
+export async function backupRestore(db: SlotsmithDb, text: string, options: { name?: string } = {}): Promise<BackupRestoreResult> {
+  const decoded = backupDecode(text);
+  if (!decoded.ok) return decoded;
+  const { projectId } = await backupStore(db, decoded.data, { name: options.name ?? decoded.data.project.name });
   return { ok: true, projectId, warnings: decoded.warnings };
 }

@@ -86,6 +86,28 @@ describe('backup and restore', () => {
     );
   });
 
+  it("keeps a batch's attached count: a second annotator's file that only added layers restores as it was", async () => {
+    const db = dbFixedClock();
+    const { id } = await projectCreate(db, { name: 'Repairs' });
+    const first = await batchBegin(db, id, { fileName: 'ana.iob', format: 'columns', annotator: 'ana' });
+    const withIds = SAMPLE.filter((u) => u.id !== undefined);
+    await batchAppend(db, first, { utterances: withIds });
+    await batchFinish(db, first, { utterances: withIds.length });
+    const second = await batchBegin(db, id, { fileName: 'ben.iob', format: 'columns', annotator: 'ben' });
+    await batchAppend(db, second, { utterances: withIds.slice(0, 2), attach: 'external-id' });
+    await batchFinish(db, second, { utterances: 2 });
+    const backup = text((await backupMake(db, id)).parts);
+    const batchLines = backup.split('\n').filter((l) => l.startsWith('{"type":"batch"'));
+    expect(batchLines.map((l) => (JSON.parse(l) as { attached?: number }).attached)).toEqual([undefined, 2]);
+    const copy = await restoredOk(db, backup);
+    const restored = await db.batches.where('projectId').equals(copy).sortBy('id');
+    expect(restored.map((b) => [b.fileName, b.counts.utterances, b.attached])).toEqual([
+      ['ana.iob', withIds.length, undefined],
+      ['ben.iob', 0, 2],
+    ]);
+    expect(text((await backupMake(db, copy)).parts)).toBe(backup);
+  });
+
   it('refuses invalid and newer backups with line-numbered errors, storing nothing', async () => {
     const source = await backupRestoreSource(dbFixedClock());
     const db = dbFixedClock();

@@ -63,6 +63,7 @@ export function backupBatchEncode(b: BatchInfo): string {
     annotator: b.annotator,
     layerStatus: b.layerStatus,
     counts,
+    attached: b.attached,
     warnings: warningsCanonical(b.warnings),
     state: b.state,
     created: b.created,

@@ -79,6 +79,11 @@ export interface BatchInfo {
   /** Status the imported layers were given (with `annotator`). */
   layerStatus?: LayerStatus;
   counts: BatchCounts;
+  /**
+   * Utterances of the file that matched a stored one by id (same text and tokens) and only got a
+   * layer; not in `counts.utterances`. Optional: older backups of format 1 have none.
+   */
+  attached?: number;
   /** Reader problems worth keeping (malformed lines…), file lines 1-based. */
   warnings: ReadError[];
   state: BatchState;

@@ -121,6 +121,7 @@ export function batchRead(r: FieldReader): BatchInfo | null {
     {
       annotator: r.stringOptional('annotator'),
       layerStatus: r.value.layerStatus === undefined ? undefined : r.choice('layerStatus', LAYER_STATUSES, 'done'),
+      attached: r.integerOptional('attached'),
       finished: r.integerOptional('finished'),
       failure: r.stringOptional('failure'),
     },

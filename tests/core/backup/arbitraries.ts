@@ -68,6 +68,7 @@ const batchArbitrary: fc.Arbitrary<BatchInfo> = fc
     annotator: optional(fc.constantFrom('ana', 'gold')),
     layerStatus: optional(fc.constantFrom('done' as const, 'draft' as const)),
     counts: fc.record({ utterances: fc.nat(9), tokens: fc.nat(99), layers: fc.nat(9) }),
+    attached: optional(fc.nat(9)),
     warnings: fc.array(fc.record({ line: fc.nat(500), message: text }), { maxLength: 2 }),
     state: fc.constantFrom('done' as const, 'failed' as const, 'cancelled' as const),
     created: time,

@@ -146,6 +146,24 @@ describe('backup codec', () => {
     ]);
   });
 
+  it("carries a batch's attached count; a format-1 batch without one still reads, a bad one is dropped with a warning", () => {
+    const withAttached: BackupData = { ...small, batches: [{ ...(small.batches[0] as BackupData['batches'][number]), attached: 7 }] };
+    const text = lines(withAttached);
+    expect(JSON.parse(text[3] ?? '')).toMatchObject({ type: 'batch', attached: 7 });
+    expect(decodeOk(text.join('\n')).batches[0]?.attached).toBe(7);
+    // The older file: no attached field anywhere, same format version, read as before.
+    const older = lines(small);
+    expect(older[3]).not.toContain('attached');
+    expect(JSON.parse(older[0] ?? '')).toMatchObject({ formatVersion: 1 });
+    expect(decodeOk(older.join('\n')).batches[0]).not.toHaveProperty('attached');
+    const bad = [...text];
+    bad[3] = (bad[3] ?? '').replace('"attached":7', '"attached":-2');
+    const result = backupDecode(bad.join('\n'));
+    if (!result.ok) throw new Error(JSON.stringify(result.errors));
+    expect(result.data.batches[0]).not.toHaveProperty('attached');
+    expect(result.warnings).toEqual([{ line: 4, message: 'batch: "attached" is not a whole number of at least 0; dropped' }]);
+  });
+
   it('reports every broken record with its file line and stores nothing of the model', () => {
     const [header = '', project = '', annotator = '', batch = '', u1 = '', u2 = '', l1 = '', l2 = '', h1 = ''] = lines(small);
     const text = [
