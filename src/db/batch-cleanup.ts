@@ -2,6 +2,12 @@
  * Start-up cleanup: an import left 'importing' by a tab that closed or crashed is rolled back and
  * reported. An import still running in another tab must be spared: the importer holds a Web Lock
  * named `batchLockName(id)` for the whole import, and `batchActiveByLocks` asks the lock manager.
+ *
+ * The batch row exists before its lock can be taken (the lock is named after the row's id). So the
+ * importer holds BATCH_BEGIN_LOCK from before it adds the row until its batch lock is granted, and
+ * the cleanup asks which locks are held only while holding BATCH_BEGIN_LOCK too: a batch it sees
+ * without a held lock then has no live importer. A lock rather than an age limit: a busy tab may
+ * take any time between the two steps, and a lock needs no guessed number of seconds.
  */
 import { BatchStateError, RecordMissingError } from './errors';
 import { batchRollback, type BatchRollbackReport } from './batch-repo';
@@ -23,15 +29,24 @@ export function batchLockName(batchId: number): string {
   return `slotsmith-import-${batchId}`;
 }
 
-/** The part of the Web Locks API (`navigator.locks`) used here. */
+/** Held by an importer from before it adds its batch row until it holds that batch's own lock. */
+export const BATCH_BEGIN_LOCK = 'slotsmith-import-begin';
+
+/** The part of the Web Locks API (`navigator.locks`) used here; `request` closes the begin gap. */
 export interface LockQueryable {
   query(): Promise<{ held?: { name?: string }[] }>;
+  request?<T>(name: string, work: () => Promise<T>): Promise<T>;
 }
 
 export function batchActiveByLocks(locks: LockQueryable): (batch: BatchRow) => Promise<boolean> {
-  return async (batch) => {
+  const heldNames = async () => {
     const { held = [] } = await locks.query();
-    return held.some((lock) => lock.name === batchLockName(batch.id));
+    return held.map((lock) => lock.name);
+  };
+  return async (batch) => {
+    // Waits out an importer between adding its row and taking its lock (see the file comment).
+    const names = locks.request === undefined ? await heldNames() : await locks.request(BATCH_BEGIN_LOCK, heldNames);
+    return names.includes(batchLockName(batch.id));
   };
 }
 

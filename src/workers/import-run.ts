@@ -6,6 +6,7 @@
 import type { IntentDef, ProjectSchema, SlotDef } from '../core/backup/model';
 import type { Utterance } from '../core/types';
 import {
+  BATCH_BEGIN_LOCK,
   batchBegin,
   batchAppend,
   batchFinish,
@@ -101,6 +102,28 @@ export function schemaWithLabels(schema: ProjectSchema, labels: { slots: readonl
 
 const lockNone = <T>(_name: string, work: () => Promise<T>): Promise<T> => work();
 
+type Lock = NonNullable<ImportControl['lock']>;
+
+/**
+ * Create the batch row and run `work` under the batch's own lock, holding BATCH_BEGIN_LOCK from
+ * before the row exists until the batch lock is granted, so a cleanup never sees the row unlocked.
+ */
+export async function batchLocked<T>(lock: Lock, begin: () => Promise<number>, work: (batchId: number) => Promise<T>): Promise<T> {
+  let running: Promise<T> | undefined;
+  await lock(BATCH_BEGIN_LOCK, async () => {
+    const batchId = await begin();
+    await new Promise<void>((granted, failed) => {
+      running = lock(batchLockName(batchId), () => {
+        granted();
+        return work(batchId);
+      });
+      // A lock request refused outright never grants: let go of the begin lock all the same.
+      running.catch(failed);
+    });
+  });
+  return running as Promise<T>;
+}
+
 export async function importCommit(db: SlotsmithDb, file: Blob, request: CommitRequest, control: ImportControl = {}): Promise<ImportSummary> {
   const project = await projectLoad(db, request.projectId);
   const withLabels = formatHasLabels(request.format);
@@ -109,10 +132,10 @@ export async function importCommit(db: SlotsmithDb, file: Blob, request: CommitR
   }
   const meta: BatchBeginMeta = { fileName: request.fileName, format: request.format };
   if (withLabels && request.annotator !== undefined) meta.annotator = request.annotator.trim();
-  const batchId = await batchBegin(db, request.projectId, meta);
+  const lock = control.lock ?? lockNone;
   const cancelled = control.cancelled ?? (() => false);
-  // The lock tells other tabs' start-up cleanup that this batch is alive, for as long as it runs.
-  return (control.lock ?? lockNone)(batchLockName(batchId), async () => {
+  // The batch lock tells other tabs' start-up cleanup that this batch is alive, for as long as it runs.
+  return batchLocked(lock, () => batchBegin(db, request.projectId, meta), async (batchId) => {
     let pending: Utterance[] = [];
     let read = 0;
     let stored = 0;

@@ -164,7 +164,8 @@ describe('importCommit', () => {
     expect(await db.layers.count()).toBe(0);
     const batches = await db.batches.toArray();
     expect(batches.map((b) => b.state)).toEqual(['cancelled']);
-    expect(locks).toEqual([`slotsmith-import-${batches[0]?.id}`]);
+    // The begin lock first (see batch-cleanup.ts), then the batch's own lock.
+    expect(locks).toEqual(['slotsmith-import-begin', `slotsmith-import-${batches[0]?.id}`]);
   });
 
   it('a second annotator’s file of the same ids adds layers to the stored utterances, not new rows', async () => {
