@@ -6,6 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { agreementCompute, layersAlign } from '../../src/core/agreement';
 import { columnsRead } from '../../src/core/formats';
 import { agreeJson } from '../../src/cli/commands/agree-json';
+import { AGREE_THREADS_FROM_BYTES, agreeThreadsChoose } from '../../src/cli/commands/agree-workers';
 import { repoRoot } from './run-cli';
 
 const corpus = (name: string) => `${repoRoot}/sample-corpus/${name}`;
@@ -50,5 +51,22 @@ describe('slotsmith agree on worker threads', () => {
       expect(here?.stderr).toContain(args[1]);
       expect(threads).toEqual(here);
     }
+  });
+});
+
+describe('agreeThreadsChoose', () => {
+  it('uses threads by itself only for large inputs on machines with two CPUs or more', () => {
+    expect(agreeThreadsChoose(undefined, 2, AGREE_THREADS_FROM_BYTES)).toBe(2);
+    expect(agreeThreadsChoose(undefined, 16, AGREE_THREADS_FROM_BYTES)).toBe(4);
+    expect(agreeThreadsChoose(undefined, 2, AGREE_THREADS_FROM_BYTES - 1)).toBe(0);
+    expect(agreeThreadsChoose(undefined, 1, 10 * AGREE_THREADS_FROM_BYTES)).toBe(0);
+  });
+
+  it('follows SLOTSMITH_WORKERS when set, within twice the CPUs; anything but digits means none', () => {
+    expect(agreeThreadsChoose('0', 8, 10 * AGREE_THREADS_FROM_BYTES)).toBe(0);
+    expect(agreeThreadsChoose('3', 2, 0)).toBe(3);
+    expect(agreeThreadsChoose('64', 2, 0)).toBe(4);
+    expect(agreeThreadsChoose('two', 2, 10 * AGREE_THREADS_FROM_BYTES)).toBe(0);
+    expect(agreeThreadsChoose('', 2, AGREE_THREADS_FROM_BYTES)).toBe(2);
   });
 });

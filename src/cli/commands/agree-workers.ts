@@ -44,15 +44,24 @@ if (!isMainThread && (workerData as { mark?: string } | null)?.mark === WORKER_M
   });
 }
 
+/** Below this much input, starting threads (~50 ms each) costs more than it saves. */
+export const AGREE_THREADS_FROM_BYTES = 8 << 20;
+
 /**
- * Threads to use: SLOTSMITH_WORKERS (0 = none, the default). Opt-in because on the shared 2-core
- * machine two threads cost ~35% more CPU and gave no measurable wall-time gain (see commit message).
- * None when this module runs from TypeScript sources, since a worker could not load the file.
+ * Threads to use: `asked` (SLOTSMITH_WORKERS) when set (0 = none, capped at twice the CPUs);
+ * otherwise one per CPU (at most 4) once the input reaches AGREE_THREADS_FROM_BYTES on a machine
+ * with two CPUs or more. The files then parse side by side and the bootstrap resamples split between
+ * threads; the figures do not depend on it.
  */
-export function agreeWorkerCount(): number {
+export function agreeThreadsChoose(asked: string | undefined, cpus: number, inputBytes: number): number {
+  if (asked !== undefined && asked !== '') return /^\d+$/.test(asked) ? Math.min(Number(asked), cpus * 2) : 0;
+  return cpus >= 2 && inputBytes >= AGREE_THREADS_FROM_BYTES ? Math.min(cpus, 4) : 0;
+}
+
+/** `agreeThreadsChoose` for this process; none when running from TypeScript sources (a worker could not load the file). */
+export function agreeWorkerCount(inputBytes: number): number {
   if (!/\.m?js$/.test(new URL(import.meta.url).pathname)) return 0;
-  const asked = process.env.SLOTSMITH_WORKERS;
-  return asked !== undefined && /^\d+$/.test(asked) ? Math.min(Number(asked), availableParallelism() * 2) : 0;
+  return agreeThreadsChoose(process.env.SLOTSMITH_WORKERS, availableParallelism(), inputBytes);
 }
 
 export class AgreeWorkers {

@@ -1,3 +1,4 @@
+import { statSync } from 'node:fs';
 import {
   agreementCompute,
   agreementIntervalsAdd,
@@ -51,9 +52,22 @@ async function reportCompute(corpus: AlignedCorpus, options: AgreementOptions, w
   return agreementIntervalsAdd(pending, resampleValuesJoin(await workers.bootstrap(pending.job)));
 }
 
+/** Total bytes of the files that exist (a missing one is reported when read). */
+function inputSize(files: readonly string[]): number {
+  let bytes = 0;
+  for (const file of files) {
+    try {
+      bytes += statSync(file).size;
+    } catch {
+      // Reported with its line when the file is read.
+    }
+  }
+  return bytes;
+}
+
 /**
  * `slotsmith agree A B [C …]`: malformed or mismatched input is exit 2 with every problem listed.
- * With SLOTSMITH_WORKERS=N, files are parsed and resamples drawn on N worker threads; the figures
+ * Large inputs are parsed and resampled on worker threads (see `agreeWorkerCount`); the figures
  * are the same whatever the thread count.
  */
 export async function agreeRun(files: readonly string[], options: AgreeOptions, io: CliIo): Promise<number> {
@@ -62,7 +76,7 @@ export async function agreeRun(files: readonly string[], options: AgreeOptions, 
     ...(options.scheme !== undefined && { scheme: options.scheme }),
     ...(options.column !== undefined && { column: options.column }),
   };
-  const count = agreeWorkerCount();
+  const count = agreeWorkerCount(inputSize(files));
   const workers = count > 0 ? new AgreeWorkers(count) : null;
   try {
     const builder = alignBuilder();

@@ -64,12 +64,15 @@ class FloatGrow {
     this.data = new Float64Array(Math.max(capacity, 16));
   }
 
+  reserve(extra: number): void {
+    if (this.length + extra <= this.data.length) return;
+    const grown = new Float64Array(Math.max(this.data.length * 2, this.length + extra));
+    grown.set(this.data.subarray(0, this.length));
+    this.data = grown;
+  }
+
   push(value: number): void {
-    if (this.length === this.data.length) {
-      const grown = new Float64Array(this.data.length * 2);
-      grown.set(this.data);
-      this.data = grown;
-    }
+    this.reserve(1);
     this.data[this.length++] = value;
   }
 
@@ -115,15 +118,23 @@ export class AlignLayerGatherer {
     const line = utterance.line ?? Number.NaN;
     this.lines.push(line);
     const tokenLines = utterance.tokenLines;
-    this.ranges.reserve(2 * tokens.length);
-    this.tags.reserve(tokens.length);
-    for (let t = 0; t < tokens.length; t++) {
+    const count = tokens.length;
+    this.ranges.reserve(2 * count);
+    this.tokenLines.reserve(count);
+    this.tags.reserve(count);
+    const ranges = this.ranges.data;
+    let at = this.ranges.length;
+    for (let t = 0; t < count; t++) {
       const token = tokens[t];
-      this.ranges.data[this.ranges.length++] = token?.start ?? 0;
-      this.ranges.data[this.ranges.length++] = token?.end ?? 0;
-      this.tokenLines.push(tokenLines?.[t] ?? line);
+      ranges[at++] = token?.start ?? 0;
+      ranges[at++] = token?.end ?? 0;
     }
-    this.tagsEncode(tags, tokens.length);
+    this.ranges.length = at;
+    const lines = this.tokenLines.data;
+    const from = this.tokenLines.length;
+    for (let t = 0; t < count; t++) lines[from + t] = tokenLines?.[t] ?? line;
+    this.tokenLines.length = from + count;
+    this.tagsEncode(tags, count);
     this.tokenStart.push(this.tags.length);
     this.tagCounts.push(tags.length);
     this.intents.push(utterance.intent === undefined ? MISSING : this.intentNames.code(utterance.intent));
@@ -137,8 +148,15 @@ export class AlignLayerGatherer {
     const out = this.tags.data;
     const at = this.tags.length;
     let open = 0;
+    // Readers hand out one string object per distinct tag, and runs of one tag (O above all) are
+    // common: comparing with the previous tag skips most map lookups.
+    let lastTag: string | undefined;
+    let lastCode = 0;
     for (let t = 0; t < count; t++) {
-      const code = this.raw.code(tags[t] ?? 'O');
+      const tag = tags[t] ?? 'O';
+      const code = tag === lastTag ? lastCode : this.raw.code(tag);
+      lastTag = tag;
+      lastCode = code;
       const prefix = this.raw.prefix[code] ?? RawPrefix.O;
       const slot = this.raw.slot[code] ?? 0;
       if (prefix === RawPrefix.O) {
