@@ -7,8 +7,12 @@ import { appDb } from './db';
 import { projectViews } from './project-views';
 
 const VIEW_LABELS: Record<Exclude<View, 'projects'>, string> = {
+  overview: 'Overview',
   corpus: 'Utterances',
   label: 'Label',
+  agreement: 'Agreement',
+  resolve: 'Resolve',
+  rules: 'Rule review',
   schema: 'Slots and intents',
   import: 'Bring in data',
   export: 'Write out data',
@@ -42,7 +46,7 @@ export function App() {
   const Profile = projectViews.profile;
   if (view === 'projects' || projectId === null) {
     const restore = <Restore onOpen={(id) => go('settings', id)} />;
-    screen = <ProjectsView onOpen={(id) => go('import', id)} onDemo={projectViews.demoLoad} extra={restore} />;
+    screen = <ProjectsView onOpen={(id) => go('corpus', id)} onDemo={projectViews.demoLoad} extra={restore} />;
   }
   else {
     const Screen = projectViews[view];

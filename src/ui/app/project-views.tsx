@@ -1,10 +1,14 @@
 import type { ComponentType } from 'react';
+import { AgreementView } from '../features/agreement/AgreementView';
 import { CorpusView } from '../features/corpus/CorpusView';
 import { ExportView } from '../features/export/ExportView';
 import { demoLoad } from '../features/import/demo-load';
 import { ImportView } from '../features/import/ImportView';
 import { LabelView } from '../features/label/LabelView';
+import { OverviewView } from '../features/overview/OverviewView';
 import { ProfileBadge } from '../features/profile/ProfileBadge';
+import { ResolveView } from '../features/resolve/ResolveView';
+import { RulesView } from '../features/rules/RulesView';
 import { SchemaView } from '../features/schema/SchemaView';
 import { RestoreBackup } from '../features/settings/RestoreBackup';
 import { SettingsView } from '../features/settings/SettingsView';
@@ -15,8 +19,12 @@ export interface ProjectViewProps {
 }
 
 export const projectViews: {
+  overview: ComponentType<ProjectViewProps>;
   corpus: ComponentType<ProjectViewProps>;
   label: ComponentType<ProjectViewProps>;
+  agreement: ComponentType<ProjectViewProps>;
+  resolve: ComponentType<ProjectViewProps>;
+  rules: ComponentType<ProjectViewProps>;
   schema: ComponentType<ProjectViewProps>;
   import: ComponentType<ProjectViewProps>;
   export: ComponentType<ProjectViewProps>;
@@ -26,8 +34,12 @@ export const projectViews: {
   /** Who is labelling at this browser, shown in the header on every screen. */
   profile: ComponentType;
 } = {
+  overview: OverviewView,
   corpus: CorpusView,
   label: LabelView,
+  agreement: AgreementView,
+  resolve: ResolveView,
+  rules: RulesView,
   schema: SchemaView,
   import: ImportView,
   export: ExportView,

@@ -1,0 +1,11 @@
+import type { ProjectViewProps } from '../../app/project-views';
+
+// Placeholder replaced by the feature's own work in progress (issue 6); the route exists so the shell is wired once.
+export function AgreementView({ projectId }: ProjectViewProps) {
+  return (
+    <section aria-labelledby="AgreementView-title">
+      <h2 id="AgreementView-title">Agreement</h2>
+      <p>Project {projectId}: this screen is being built.</p>
+    </section>
+  );
+}
