@@ -21,6 +21,7 @@ async function projectNew(page: Page, name: string) {
   await page.goto('/');
   await page.getByLabel('New project name').fill(name);
   await page.getByRole('button', { name: 'Create project' }).click();
+  await page.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Bring in data' }).click();
   await expect(page.getByRole('heading', { name: `Bring in data to ${name}` })).toBeVisible();
 }
 
@@ -109,6 +110,8 @@ test('the demo project is one click away, with both annotators’ layers', async
   expect(shared).toBeGreaterThan(0);
   await page.goto('/');
   await page.getByRole('button', { name: /Try the demo project/ }).click();
+  await expect(page.getByRole('heading', { name: 'Utterances: Home-repair demo' })).toBeVisible();
+  await page.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Bring in data' }).click();
   await expect(page.getByRole('heading', { name: 'Bring in data to Home-repair demo' })).toBeVisible();
   await expect(page.getByText(`This project holds ${fmt(a + b - shared)} utterances`)).toBeVisible();
   const stored = await page.evaluate(

@@ -1,11 +1,164 @@
+import { useLiveQuery } from 'dexie-react-hooks';
+import { useCallback, useEffect, useMemo, useState } from 'react';
+import { projectGet, utteranceCount } from '../../../db';
+import { corpusIndexSignature } from '../../../db/corpus-index';
+import type { CorpusFilter, CorpusQuery, CorpusSort } from '../../../db/corpus-query';
+import { corpusAnnotators, corpusIdsInSeqOrder } from '../../../db/corpus-rows';
+import { useNav } from '../../../state/nav';
+import { useSession } from '../../../state/session';
 import type { ProjectViewProps } from '../../app/project-views';
+import { appDb } from '../../app/db';
+import { corpusWorker } from './corpus-client';
+import { corpusFilterCount, corpusStateFromQuery, corpusStateNeedsIndex, corpusStateToQuery, type CorpusViewState } from './corpus-url';
+import { CorpusFilters } from './CorpusFilters';
+import { CorpusTable } from './CorpusTable';
+import './corpus.css';
 
-// Placeholder replaced by the feature's own work in progress (issue 5); the route exists so the shell is wired once.
+interface Answer {
+  key: string;
+  ids: Int32Array;
+  slots: string[];
+  intents: string[];
+}
+
+const fmt = (n: number) => n.toLocaleString('en');
+const union = (...lists: readonly (readonly string[])[]) => [...new Set(lists.flat())].sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
+
+/** The default layer outside blind mode: the labeller's own when they have one here, else the first person's. */
+function layerDefault(profileId: string | null, annotators: readonly string[]): string | null {
+  if (profileId !== null && annotators.includes(profileId)) return profileId;
+  return annotators[0] ?? profileId;
+}
+
+/** The utterances of a project as a filterable, sortable table; a row opens in the Label screen. */
 export function CorpusView({ projectId }: ProjectViewProps) {
+  const { query, queryReplace, go } = useNav();
+  const { profile, blind: blindSetting } = useSession();
+  const blind = profile !== null && profile.role === 'annotator' && blindSetting;
+  const state = useMemo(() => corpusStateFromQuery(query), [query]);
+  const project = useLiveQuery(() => projectGet(appDb(), projectId), [projectId]);
+  const annotators = useLiveQuery(() => corpusAnnotators(appDb(), projectId), [projectId]);
+  const total = useLiveQuery(() => utteranceCount(appDb(), projectId), [projectId]);
+  const signature = useLiveQuery(() => corpusIndexSignature(appDb(), projectId), [projectId]);
+  const layer = blind ? profile.id : (state.layer ?? layerDefault(profile?.id ?? null, annotators ?? []));
+  const filter: CorpusFilter = useMemo(() => {
+    if (!blind || state.filter.disagreement === undefined) return state.filter;
+    const { disagreement: _hidden, ...rest } = state.filter;
+    return rest;
+  }, [state.filter, blind]);
+  const needsIndex = corpusStateNeedsIndex(state, blind);
+  const key = JSON.stringify([projectId, layer, filter, state.sort, blind]);
+  const [answer, setAnswer] = useState<Answer | null>(null);
+  const [error, setError] = useState<string | null>(null);
+
+  useEffect(() => {
+    if (signature === undefined || annotators === undefined) return undefined;
+    let live = true;
+    const request: CorpusQuery = { layer, filter, sort: state.sort, blind };
+    const run = async (): Promise<Answer> => {
+      if (needsIndex) {
+        const a = await corpusWorker().query(projectId, request);
+        return { key, ids: a.ids, slots: a.slots, intents: a.intents };
+      }
+      // Every utterance in seq order: the index keys alone, no worker, so a big project shows at once.
+      const ids = await corpusIdsInSeqOrder(appDb(), projectId);
+      return { key, ids: state.sort.desc ? ids.reverse() : ids, slots: [], intents: [] };
+    };
+    run()
+      .then((a) => {
+        if (!live) return;
+        setAnswer(a);
+        setError(null);
+      })
+      .catch((e: unknown) => live && setError(e instanceof Error ? e.message : String(e)));
+    return () => {
+      live = false;
+    };
+    // `key` stands for layer, filter, sort and blind.
+  }, [key, signature, annotators, needsIndex, projectId]); // eslint-disable-line react-hooks/exhaustive-deps
+
+  // With the first rows on screen, build the filter index in the worker, so the first filter is quick.
+  const shown = answer !== null;
+  useEffect(() => {
+    if (!shown || needsIndex) return undefined;
+    const timer = setTimeout(() => {
+      void corpusWorker()
+        .query(projectId, { layer, filter: {}, sort: { key: 'id', desc: false }, blind })
+        .catch(() => undefined);
+    }, 1500);
+    return () => clearTimeout(timer);
+  }, [shown, needsIndex, projectId, layer, blind]);
+
+  const stateSet = useCallback((next: CorpusViewState) => queryReplace(corpusStateToQuery(next)), [queryReplace]);
+  const onFilter = useCallback((f: CorpusFilter) => stateSet({ ...state, filter: f }), [state, stateSet]);
+  const onSort = useCallback((sort: CorpusSort) => stateSet({ ...state, sort }), [state, stateSet]);
+  const onLayer = useCallback((l: string) => stateSet({ ...state, layer: l }), [state, stateSet]);
+  const onOpen = useCallback((utteranceId: number) => go('label', projectId, { u: String(utteranceId) }), [go, projectId]);
+  const clear = () => stateSet({ filter: {}, sort: state.sort, layer: state.layer });
+
+  const schema = project?.schema ?? { slots: [], intents: [] };
+  const slots = union(
+    schema.slots.map((s) => s.name),
+    answer?.slots ?? [],
+  );
+  const intents = union(
+    schema.intents.map((i) => i.name),
+    answer?.intents ?? [],
+  );
+  const busy = answer === null || answer.key !== key;
+  const filters = corpusFilterCount(filter);
+
   return (
-    <section aria-labelledby="CorpusView-title">
-      <h2 id="CorpusView-title">Utterances</h2>
-      <p>Project {projectId}: this screen is being built.</p>
+    <section aria-labelledby="corpus-title" className="corpus-view">
+      <h2 id="corpus-title">Utterances{project === undefined ? '' : `: ${project.name}`}</h2>
+      {blind && (
+        <p className="corpus-note">
+          Blind mode: you see only your own labels (<strong>{profile.id}</strong>); others’ labels and their disagreements stay hidden.
+        </p>
+      )}
+      <CorpusFilters
+        filter={filter}
+        slots={slots}
+        intents={intents}
+        annotators={annotators ?? []}
+        layer={layer}
+        onLayer={blind ? null : onLayer}
+        blind={blind}
+        onFilter={onFilter}
+      />
+      <div className="corpus-summary">
+        <p role="status" data-testid="corpus-count">
+          {answer === null ? 'Reading the utterances…' : `Showing ${fmt(answer.ids.length)} of ${fmt(total ?? answer.ids.length)} utterances`}
+          {busy && answer !== null ? ' (updating…)' : ''}
+        </p>
+        {filters > 0 && (
+          <button type="button" onClick={clear}>
+            Clear filters
+          </button>
+        )}
+      </div>
+      {error !== null && (
+        <p role="alert" className="error">
+          The table could not be read: {error}
+        </p>
+      )}
+      <p id="corpus-help" className="corpus-note">
+        Arrow keys move between rows, Enter opens the utterance for labelling; column headings sort.
+      </p>
+      {answer !== null && (
+        <CorpusTable
+          projectId={projectId}
+          ids={answer.ids}
+          layer={layer}
+          blind={blind}
+          schema={schema}
+          sort={state.sort}
+          onSort={onSort}
+          onOpen={onOpen}
+          describedBy="corpus-help"
+          busy={busy}
+        />
+      )}
     </section>
   );
 }

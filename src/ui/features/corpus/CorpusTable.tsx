@@ -1,0 +1,274 @@
+import { createColumnHelper, rowSortingFeature, tableFeatures, useTable, type ReactTable, type Row, type SortingState, type Updater } from '@tanstack/react-table';
+import { useVirtualizer } from '@tanstack/react-virtual';
+import { useLiveQuery } from 'dexie-react-hooks';
+import { memo, useEffect, useMemo, useRef, useState, type KeyboardEvent } from 'react';
+import type { ProjectSchema } from '../../../core/backup/model';
+import { CORPUS_SORT_DEFAULT, CORPUS_SORT_KEYS, type CorpusSort, type CorpusSortKey } from '../../../db/corpus-query';
+import { corpusRowsRead, type CorpusRow } from '../../../db/corpus-rows';
+import { appDb } from '../../app/db';
+import { rowIndexAfterKey } from './row-keys';
+import { SlotText } from './SlotText';
+
+/** Fixed row height (px): a fixed size lets the virtualiser place any of 100k rows without measuring. */
+export const CORPUS_ROW_HEIGHT = 40;
+/** Rows read from the database at a time; windows are whole pages so small scrolls reuse a read. */
+const PAGE = 50;
+/** Rows kept in memory beyond the visible window, so scrolling back does not flash placeholders. */
+const CACHE_MAX = 600;
+
+/** One place in the table: its position and the row when read. */
+interface Slot {
+  index: number;
+  row: CorpusRow | undefined;
+}
+
+const features = tableFeatures({ rowSortingFeature });
+const helper = createColumnHelper<typeof features, Slot>();
+
+export interface CorpusTableProps {
+  projectId: number;
+  ids: Int32Array;
+  layer: string | null;
+  blind: boolean;
+  schema: ProjectSchema;
+  sort: CorpusSort;
+  onSort: (sort: CorpusSort) => void;
+  onOpen: (utteranceId: number) => void;
+  describedBy: string;
+  busy: boolean;
+}
+
+const placeholder = <span className="corpus-wait">…</span>;
+
+function columnsMake(schema: ProjectSchema, blind: boolean) {
+  const columns = helper.columns([
+    helper.accessor((s) => s.row?.seq ?? 0, {
+      id: 'id',
+      header: 'Id',
+      cell: ({ row }) => (row.original.row === undefined ? placeholder : (row.original.row.externalId ?? `#${row.original.row.seq}`)),
+    }),
+    helper.accessor((s) => s.row?.text ?? '', {
+      id: 'text',
+      header: 'Text',
+      cell: ({ row }) => {
+        const r = row.original.row;
+        return r === undefined ? placeholder : <SlotText text={r.text} tokens={r.tokens} tags={r.tags} schema={schema} />;
+      },
+    }),
+    helper.accessor((s) => s.row?.intent ?? '', {
+      id: 'intent',
+      header: 'Intent',
+      cell: ({ row }) => {
+        const r = row.original.row;
+        if (r === undefined) return placeholder;
+        if (r.intent === null) return <span className="corpus-none">none</span>;
+        return r.intentFromFile ? <span title="From the imported file; no layer gave one">{r.intent} (file)</span> : r.intent;
+      },
+    }),
+    helper.accessor((s) => s.row?.status ?? '', { id: 'status', header: 'Status', cell: ({ row }) => row.original.row?.status ?? placeholder }),
+    helper.accessor((s) => s.row?.done ?? 0, {
+      id: 'done',
+      header: 'Done',
+      cell: ({ row }) => {
+        const r = row.original.row;
+        return r === undefined ? placeholder : `${r.done} of ${r.layers}`;
+      },
+    }),
+    helper.accessor((s) => s.row?.violations ?? 0, {
+      id: 'violations',
+      header: 'Rule problems',
+      cell: ({ row }) => {
+        const r = row.original.row;
+        if (r === undefined) return placeholder;
+        return r.violations === 0 ? <span className="corpus-none">0</span> : <strong className="corpus-bad">{r.violations}</strong>;
+      },
+    }),
+  ]);
+  if (blind) return columns;
+  return helper.columns([
+    ...columns,
+    helper.accessor((s) => (s.row?.disagreement === true ? 1 : 0), {
+      id: 'disagreement',
+      header: 'Differs',
+      enableSorting: false,
+      cell: ({ row }) => {
+        const r = row.original.row;
+        if (r === undefined) return placeholder;
+        return r.disagreement === true ? <strong className="corpus-bad">differs</strong> : '';
+      },
+    }),
+  ]);
+}
+
+const ARIA_SORT = { asc: 'ascending', desc: 'descending' } as const;
+
+interface RowViewProps {
+  row: Row<typeof features, Slot>;
+  start: number;
+  tabbable: boolean;
+  onOpen: (utteranceId: number) => void;
+  onFocusIndex: (index: number) => void;
+  Render: ReactTable<typeof features, Slot>['FlexRender'];
+}
+
+const RowView = memo(function RowView({ row, start, tabbable, onOpen, onFocusIndex, Render }: RowViewProps) {
+  const { index, row: data } = row.original;
+  return (
+    <div
+      role="row"
+      aria-rowindex={index + 2}
+      data-index={index}
+      tabIndex={tabbable ? 0 : -1}
+      className="corpus-row"
+      style={{ transform: `translateY(${start}px)` }}
+      onClick={() => data !== undefined && onOpen(data.id)}
+      onFocus={() => onFocusIndex(index)}
+    >
+      {row.getAllCells().map((cell) => (
+        <div role="cell" key={cell.id} className={`corpus-cell corpus-cell-${cell.column.id}`}>
+          <Render cell={cell} />
+        </div>
+      ))}
+    </div>
+  );
+});
+
+/** The utterance table: every matching row reachable by scrolling, only the visible ones rendered and read. */
+export function CorpusTable({ projectId, ids, layer, blind, schema, sort, onSort, onOpen, describedBy, busy }: CorpusTableProps) {
+  const scrollRef = useRef<HTMLDivElement>(null);
+  // The virtualiser's object changes meaning on every scroll, so nothing derived from it may be memoised; this component does not.
+  // eslint-disable-next-line react-hooks/incompatible-library
+  const virtualizer = useVirtualizer({ count: ids.length, getScrollElement: () => scrollRef.current, estimateSize: () => CORPUS_ROW_HEIGHT, overscan: 10 });
+  const items = virtualizer.getVirtualItems();
+  const first = items[0]?.index ?? 0;
+  const last = items[items.length - 1]?.index ?? -1;
+  const pageFrom = Math.floor(first / PAGE) * PAGE;
+  const pageTo = Math.min(ids.length, (Math.floor(Math.max(last, 0) / PAGE) + 1) * PAGE);
+
+  // Rows already read, by utterance id; emptied when what a row shows changes.
+  const cache = useRef(new Map<number, CorpusRow>());
+  const cacheKey = `${projectId}|${layer ?? ''}|${blind}`;
+  const cacheFor = useRef(cacheKey);
+  if (cacheFor.current !== cacheKey) {
+    cache.current = new Map();
+    cacheFor.current = cacheKey;
+  }
+  const read = useLiveQuery(() => corpusRowsRead(appDb(), ids.subarray(pageFrom, pageTo), { projectId, layer, blind }), [ids, pageFrom, pageTo, projectId, layer, blind]);
+  const data = useMemo(() => {
+    if (read !== undefined) {
+      if (cache.current.size + read.length > CACHE_MAX) cache.current = new Map();
+      for (const r of read) cache.current.set(r.id, r);
+    }
+    const slots: Slot[] = [];
+    for (let i = pageFrom; i < pageTo; i++) slots.push({ index: i, row: cache.current.get(ids[i] as number) });
+    return slots;
+  }, [read, ids, pageFrom, pageTo]);
+
+  const columns = useMemo(() => columnsMake(schema, blind), [schema, blind]);
+  const sorting = useMemo<SortingState>(() => [{ id: sort.key, desc: sort.desc }], [sort.key, sort.desc]);
+  const table = useTable({
+    features,
+    columns,
+    data,
+    getRowId: (slot) => String(slot.index),
+    state: { sorting },
+    manualSorting: true,
+    enableMultiSort: false,
+    enableSortingRemoval: false,
+    sortDescFirst: false,
+    onSortingChange: (updater: Updater<SortingState>) => {
+      const next = typeof updater === 'function' ? updater(sorting) : updater;
+      const top = next[0];
+      const key = top === undefined || !(CORPUS_SORT_KEYS as readonly string[]).includes(top.id) ? null : (top.id as CorpusSortKey);
+      onSort(key === null || top === undefined ? CORPUS_SORT_DEFAULT : { key, desc: top.desc });
+    },
+  });
+  const rows = table.getRowModel().rows;
+
+  const [focusIndex, setFocusIndex] = useState(0);
+  const focusWanted = useRef(false);
+  useEffect(() => {
+    setFocusIndex((i) => Math.min(i, Math.max(0, ids.length - 1)));
+  }, [ids]);
+  useEffect(() => {
+    if (!focusWanted.current) return;
+    const element = scrollRef.current?.querySelector<HTMLElement>(`[data-index="${focusIndex}"]`);
+    if (element) {
+      element.focus({ preventScroll: true });
+      focusWanted.current = false;
+    }
+  });
+  const tabbableIndex = focusIndex >= first && focusIndex <= last ? focusIndex : first;
+  const visibleRows = Math.max(1, Math.floor((scrollRef.current?.clientHeight ?? CORPUS_ROW_HEIGHT * 10) / CORPUS_ROW_HEIGHT) - 1);
+
+  function keyDown(event: KeyboardEvent<HTMLDivElement>) {
+    const target = event.target as HTMLElement;
+    const at = Number(target.dataset.index ?? Number.NaN);
+    if (Number.isNaN(at)) return;
+    if (event.key === 'Enter') {
+      const id = ids[at];
+      if (id !== undefined) onOpen(id);
+      event.preventDefault();
+      return;
+    }
+    const next = rowIndexAfterKey(event.key, at, ids.length, visibleRows);
+    if (next === null) return;
+    event.preventDefault();
+    focusWanted.current = true;
+    setFocusIndex(next);
+    virtualizer.scrollToIndex(next, { align: 'auto' });
+  }
+
+  return (
+    <div role="table" aria-label="Utterances" aria-describedby={describedBy} aria-rowcount={ids.length + 1} aria-busy={busy} className="corpus-table">
+      <div role="rowgroup" className="corpus-head">
+        {table.getHeaderGroups().map((group) => (
+          <div role="row" aria-rowindex={1} key={group.id} className="corpus-row corpus-row-head">
+            {group.headers.map((header) => {
+              const sorted = header.column.getIsSorted();
+              const canSort = header.column.getCanSort();
+              return (
+                <div
+                  role="columnheader"
+                  key={header.id}
+                  aria-sort={canSort ? (sorted === false ? 'none' : ARIA_SORT[sorted]) : undefined}
+                  className={`corpus-cell corpus-cell-${header.column.id}`}
+                >
+                  {canSort ? (
+                    <button type="button" onClick={header.column.getToggleSortingHandler()}>
+                      <table.FlexRender header={header} />
+                      <span aria-hidden="true" className="corpus-sort-mark">
+                        {sorted === 'asc' ? ' ▲' : sorted === 'desc' ? ' ▼' : ''}
+                      </span>
+                    </button>
+                  ) : (
+                    <table.FlexRender header={header} />
+                  )}
+                </div>
+              );
+            })}
+          </div>
+        ))}
+      </div>
+      <div role="rowgroup" ref={scrollRef} className="corpus-body" onKeyDown={keyDown}>
+        <div role="none" className="corpus-sizer" style={{ height: virtualizer.getTotalSize() }}>
+          {items.map((item) => {
+            const row = rows[item.index - pageFrom];
+            if (row === undefined) return null;
+            return (
+              <RowView
+                key={item.index}
+                row={row}
+                start={item.start}
+                tabbable={item.index === tabbableIndex}
+                onOpen={onOpen}
+                onFocusIndex={setFocusIndex}
+                Render={table.FlexRender}
+              />
+            );
+          })}
+        </div>
+      </div>
+    </div>
+  );
+}
