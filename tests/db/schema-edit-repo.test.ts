@@ -181,9 +181,9 @@ describe('plain schema saves', () => {
   it('stores a checked schema and refuses problems or dropped names', async () => {
     const db = dbTest();
     const { projectId } = await seed(db);
-    const added: ProjectSchema = { ...SCHEMA, slots: [...SCHEMA.slots, { name: 'area.from', key: 'f', colour: '#E69F00' }] };
+    const added: ProjectSchema = { ...SCHEMA, slots: [...SCHEMA.slots, { name: 'area.from', key: 'q', colour: '#E69F00' }] };
     expect((await schemaSave(db, projectId, added)).schema).toEqual(added);
-    await expect(schemaSave(db, projectId, { ...added, slots: [...added.slots, { name: 'area.to', key: 'F' }] })).rejects.toThrow(/already labels area.from/);
+    await expect(schemaSave(db, projectId, { ...added, slots: [...added.slots, { name: 'area.to', key: 'Q' }] })).rejects.toThrow(/already labels area.from/);
     await expect(schemaSave(db, projectId, SCHEMA)).rejects.toThrow(/rename or delete to remove area.from/);
     expect((await projectGet(db, projectId))?.schema).toEqual(added);
   });

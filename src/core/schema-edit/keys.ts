@@ -4,15 +4,18 @@
  */
 
 /**
- * Keys the span editor keeps for itself; a slot may not take one. Letters are listed in lower case:
- * keys are compared without case (`keyNormalise`), because Shift extends the selection and Caps Lock
- * should not change what a key does. Digits choose intents and statuses; `/` opens the label search.
+ * Keys the span editor keeps for itself; a slot may not take one. A lower-case letter here reserves
+ * its upper-case form too (Shift extends the selection, and Caps Lock should not change what a key
+ * does); an upper-case letter reserves only itself, for the editor's Shift+letter commands. Digits
+ * choose intents and statuses; `/` opens the label search; `[`, `]`, Home and End move around.
  */
 export const EDITOR_RESERVED_KEYS: readonly string[] = [
   'ArrowLeft',
   'ArrowRight',
   'ArrowUp',
   'ArrowDown',
+  'Home',
+  'End',
   'Escape',
   'Enter',
   'Backspace',
@@ -21,11 +24,19 @@ export const EDITOR_RESERVED_KEYS: readonly string[] = [
   ' ',
   '?',
   '/',
+  '[',
+  ']',
   'z',
   'y',
   'n',
   'p',
   'u',
+  'D',
+  'F',
+  'I',
+  'N',
+  'S',
+  'T',
   '0',
   '1',
   '2',
@@ -38,19 +49,19 @@ export const EDITOR_RESERVED_KEYS: readonly string[] = [
   '9',
 ];
 
-const RESERVED = new Set(EDITOR_RESERVED_KEYS.map(keyNormalise));
+const RESERVED = new Set(EDITOR_RESERVED_KEYS);
 
 // One code point that is neither a control, format, unassigned, private-use or surrogate code point (C)
 // nor a separator (Z): a character that shows when typed (Unicode general categories, UAX #44).
 const PRINTABLE_ONE = /^[^\p{C}\p{Z}\p{M}]$/u;
 
-/** The form keys are compared in: lower case for letters, unchanged for named keys. */
+/** The form keys are compared in for uniqueness: lower case for letters, unchanged for named keys. */
 export function keyNormalise(key: string): string {
   return [...key].length === 1 ? key.toLowerCase() : key;
 }
 
 export function keyIsReserved(key: string): boolean {
-  return RESERVED.has(keyNormalise(key));
+  return RESERVED.has(key) || RESERVED.has(keyNormalise(key));
 }
 
 /** Null when `key` can be a slot's shortcut, else the reason in words (uniqueness is checked by the schema). */

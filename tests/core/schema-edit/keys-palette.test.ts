@@ -8,6 +8,9 @@ describe('shortcut keys', () => {
     // Upper case letters are the same keys with Shift.
     for (const key of ['Z', 'Y', 'N', 'P', 'U', 'z']) expect(keyIsReserved(key)).toBe(true);
     expect(keyIsReserved('a')).toBe(false);
+    // The labelling screen's own keys (src/ui/features/label/label-keys.ts): Shift+D marks done, but d stays free.
+    for (const key of ['[', ']', 'Home', 'End', '/', 'D', 'S', 'F', 'I', 'T']) expect(keyIsReserved(key)).toBe(true);
+    for (const key of ['d', 's', 'f', 'i', 't']) expect(keyIsReserved(key)).toBe(false);
   });
 
   it('accepts one visible character, refuses the rest with a reason', () => {
