@@ -1,0 +1,53 @@
+import { describe, expect, it } from 'vitest';
+import type { LayerRow } from '../../src/db/schema';
+import { layerStatusCounts, layersScan, layerUtteranceIds } from '../../src/workers/agreement-read';
+import { dbTest, SAMPLE } from '../db/helpers';
+import { agreementSeed } from './agreement-seed';
+
+// Several projects in one database, so pages of one project's ids must never pick up another's rows.
+async function twoProjects() {
+  const db = dbTest();
+  const many = Array.from({ length: 30 }, (_, i) => ({ ...(SAMPLE[i % SAMPLE.length] as (typeof SAMPLE)[number]), id: `hr-${i + 1}` }));
+  const first = await agreementSeed(db, [
+    { annotator: 'ann-a', utterances: many, statusOf: (_, i) => (i % 3 === 0 ? 'draft' : 'done') },
+    { annotator: 'ann-b', utterances: many.filter((_, i) => i % 2 === 0) },
+    { annotator: 'gold', utterances: many.slice(0, 5) },
+  ]);
+  const second = await agreementSeed(db, [{ annotator: 'ann-a', utterances: many.slice(0, 10) }], 'Roof leaks');
+  return { db, first, second, many };
+}
+
+describe('layersScan', () => {
+  it('visits exactly the chosen layers, in utterance order, whatever the page size', async () => {
+    const { db, first } = await twoProjects();
+    const choice = { projectId: first.projectId, annotators: ['ann-a', 'ann-b'], statuses: ['done' as const] };
+    const all = await db.layers.toArray();
+    const want = all
+      .filter((r) => r.projectId === first.projectId && choice.annotators.includes(r.annotator) && r.status === 'done')
+      .sort((x, y) => x.utteranceId - y.utteranceId || (x.annotator < y.annotator ? -1 : 1));
+    for (const pageSize of [1, 4, 7, 1000]) {
+      const seen: LayerRow[] = [];
+      const progress: string[] = [];
+      const counts = await layersScan(db, choice, (row) => seen.push(row), (p) => progress.push(`${p.done}/${p.total}`), pageSize);
+      expect(seen).toEqual(want);
+      expect(counts.layers).toBe(want.length);
+      expect(counts.utterances).toBe(new Set(want.map((r) => r.utteranceId)).size);
+      expect(progress.at(-1)).toBe(`${counts.utterances}/${counts.utterances}`);
+    }
+  });
+
+  it('reads every layer of the project when nothing is narrowed', async () => {
+    const { db, first, second } = await twoProjects();
+    const seen: LayerRow[] = [];
+    await layersScan(db, { projectId: first.projectId, annotators: null, statuses: null }, (row) => seen.push(row), undefined, 3);
+    expect(seen.length).toBe(30 + 15 + 5);
+    expect(seen.every((r) => r.projectId === first.projectId)).toBe(true);
+    const ids = await layerUtteranceIds(db, { projectId: second.projectId, annotators: null, statuses: null });
+    expect([...ids]).toEqual([...second.idOf.values()].slice(0, 10));
+  });
+
+  it('counts layers per annotator and status from the index', async () => {
+    const { db, first } = await twoProjects();
+    expect(await layerStatusCounts(db, first.projectId)).toEqual({ 'ann-a': { done: 20, draft: 10 }, 'ann-b': { done: 15 }, gold: { done: 5 } });
+  });
+});
