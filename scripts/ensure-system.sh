@@ -1,5 +1,5 @@
 #!/usr/bin/env bash
-# Installs the Debian packages the tests need (Chromium, reference libraries, Unicode data) when absent.
+# Installs the Debian packages the tests need (Chromium, reference libraries, Unicode data, a C++ toolchain) when absent.
 set -euo pipefail
 
 missing=()
@@ -7,6 +7,9 @@ missing=()
 /usr/bin/python3 -c 'import sklearn' >/dev/null 2>&1 || missing+=(python3-sklearn)
 /usr/bin/python3 -c 'import nltk' >/dev/null 2>&1 || missing+=(python3-nltk)
 [ -f /usr/share/unicode/auxiliary/WordBreakTest.txt ] || missing+=(unicode-data)
+# The crfsuite dev dependency (CRF reference test and benchmark) compiles its addon with node-gyp.
+{ command -v g++ >/dev/null && command -v make >/dev/null; } || missing+=(build-essential)
+command -v python3 >/dev/null || missing+=(python3)
 
 [ ${#missing[@]} -eq 0 ] && exit 0
 echo "[system] installing missing Debian packages: ${missing[*]}"
