@@ -1,11 +1,158 @@
+import { useLiveQuery } from 'dexie-react-hooks';
+import { projectGet } from '../../../db/project-repo';
+import { useNav } from '../../../state/nav';
+import type { AgreementProgress, AgreementResult } from '../../../workers/agreement-run';
+import { layerStatusCounts } from '../../../workers/agreement-read';
+import { appDb } from '../../app/db';
 import type { ProjectViewProps } from '../../app/project-views';
+import { choiceFromQuery, choiceQuery, choiceRequest, choiceStatuses, layerOwners, type AgreementChoice } from './agreement-choice';
+import { countText, listText } from './agreement-format';
+import { ConfusionTable, SlotTable, TimeTable } from './ChartTables';
+import { ConfusionHeatmap } from './charts/ConfusionHeatmap';
+import { SlotBars } from './charts/SlotBars';
+import { TimeChart } from './charts/TimeChart';
+import { DisagreementList } from './DisagreementList';
+import { FiguresTable } from './FiguresTable';
+import { MultiFigures } from './MultiFigures';
+import { useAgreementRun } from './use-agreement-run';
+import './agreement.css';
 
-// Placeholder replaced by the feature's own work in progress (issue 6); the route exists so the shell is wired once.
-export function AgreementView({ projectId }: ProjectViewProps) {
+function progressText(p: AgreementProgress | null): string {
+  if (p === null) return 'Starting…';
+  if (p.phase === 'reading') return `Reading layers: ${countText(p.done)} of ${countText(p.total)} utterances`;
+  if (p.phase === 'computing') return 'Computing the figures…';
+  return `Intervals: ${countText(p.done)} of ${countText(p.total)} resamples`;
+}
+
+function Dashboard({ result, projectId }: { result: AgreementResult; projectId: number }) {
+  const { go } = useNav();
+  const { report } = result;
+  const names = report.pairNames;
   return (
-    <section aria-labelledby="AgreementView-title">
-      <h2 id="AgreementView-title">Agreement</h2>
-      <p>Project {projectId}: this screen is being built.</p>
+    <>
+      <p data-testid="agreement-compared">
+        Compared {countText(report.utterances)} utterances ({countText(report.tokens)} tokens) that both {names[0]} and {names[1]} hold. Counted layers with status{' '}
+        {listText(result.statuses)}: {result.counted.map((c) => `${c.annotator} ${countText(c.layers)}`).join(', ')}. Computed in {(result.timings.totalMs / 1000).toFixed(2)} s.
+      </p>
+      <section aria-labelledby="agreement-figures-title">
+        <h3 id="agreement-figures-title">Figures</h3>
+        <FiguresTable report={report} />
+      </section>
+      <MultiFigures report={report} />
+      <section aria-labelledby="agreement-slots-title">
+        <h3 id="agreement-slots-title">Per slot</h3>
+        <SlotBars perSlot={report.perSlot} names={names} />
+        <SlotTable perSlot={report.perSlot} names={names} />
+      </section>
+      <section aria-labelledby="agreement-confusion-title">
+        <h3 id="agreement-confusion-title">Which slot types get confused</h3>
+        <ConfusionHeatmap labels={report.confusion.labels} counts={report.confusion.counts} names={names} />
+        <ConfusionTable labels={report.confusion.labels} counts={report.confusion.counts} names={names} />
+      </section>
+      <section aria-labelledby="agreement-time-title">
+        <h3 id="agreement-time-title">Agreement over time</h3>
+        <TimeChart points={result.overTime} />
+        <TimeTable points={result.overTime} />
+      </section>
+      <section aria-labelledby="agreement-list-title">
+        <h3 id="agreement-list-title">Disagreeing utterances</h3>
+        <DisagreementList
+          items={result.disagreements}
+          total={report.disagreements.total}
+          names={names}
+          onOpen={(d) => go('resolve', projectId, { u: String(d.utteranceId), a: names[0], b: names[1] })}
+        />
+      </section>
+    </>
+  );
+}
+
+function ChoiceForm({ owners, choice, onChange, onAgain, busy }: { owners: string[]; choice: AgreementChoice; onChange: (c: AgreementChoice) => void; onAgain: () => void; busy: boolean }) {
+  return (
+    <form className="agreement-choice" onSubmit={(e) => e.preventDefault()}>
+      <label>
+        Layer A{' '}
+        <select value={choice.a} onChange={(e) => onChange({ ...choice, a: e.target.value })}>
+          {owners.map((o) => (
+            <option key={o} value={o}>
+              {o}
+            </option>
+          ))}
+        </select>
+      </label>
+      <label>
+        Layer B{' '}
+        <select value={choice.b} onChange={(e) => onChange({ ...choice, b: e.target.value })}>
+          {owners.map((o) => (
+            <option key={o} value={o}>
+              {o}
+            </option>
+          ))}
+        </select>
+      </label>
+      <label>
+        <input type="checkbox" checked={choice.all} onChange={(e) => onChange({ ...choice, all: e.target.checked })} /> Every annotator together (adds Fleiss’ kappa, Krippendorff’s alpha)
+      </label>
+      <label>
+        <input type="checkbox" checked={choice.drafts} onChange={(e) => onChange({ ...choice, drafts: e.target.checked })} /> Count draft layers too
+      </label>
+      <button type="button" onClick={onAgain} disabled={busy}>
+        Compute again
+      </button>
+    </form>
+  );
+}
+
+export function AgreementView({ projectId }: ProjectViewProps) {
+  const { query, queryReplace } = useNav();
+  const project = useLiveQuery(() => projectGet(appDb(), projectId), [projectId]);
+  const counts = useLiveQuery(() => layerStatusCounts(appDb(), projectId), [projectId]);
+  const owners = counts === undefined ? [] : layerOwners(counts);
+  const choice = counts === undefined ? null : choiceFromQuery(query, owners);
+  const planned = choice === null || counts === undefined ? null : choiceRequest(projectId, choice, counts);
+  const request = planned !== null && 'request' in planned ? planned.request : null;
+  const countsKey = JSON.stringify(counts ?? null);
+  const { state, cancel, again } = useAgreementRun(request, countsKey);
+  const stale = state.kind === 'done' && state.stamp !== countsKey;
+  return (
+    <section aria-labelledby="agreement-title" className="agreement">
+      <h2 id="agreement-title">Agreement{project === undefined ? '' : `: ${project.name}`}</h2>
+      {counts !== undefined && choice === null && <p>Agreement needs layers of at least two annotators; this project has {owners.length === 0 ? 'none' : `only ${owners.join('')}`}.</p>}
+      {choice !== null && (
+        <>
+          <ChoiceForm owners={owners} choice={choice} onChange={(c) => queryReplace(choiceQuery(c))} onAgain={again} busy={state.kind === 'running'} />
+          <p className="agreement-note">
+            Counting layers with status {listText(choiceStatuses(choice))} only
+            {choice.drafts ? '' : ' (tick “Count draft layers too” to include drafts)'}; skipped, flagged and unlabelled layers never count.
+          </p>
+        </>
+      )}
+      {planned !== null && 'problem' in planned && <p className="error">{planned.problem}</p>}
+      {state.kind === 'running' && (
+        <div className="agreement-progress" role="status">
+          <progress aria-label="Agreement computation" {...(state.progress !== null && state.progress.phase !== 'computing' ? { value: state.progress.done, max: Math.max(1, state.progress.total) } : {})} />
+          <span>{progressText(state.progress)}</span>
+          <button type="button" onClick={cancel}>
+            Cancel
+          </button>
+        </div>
+      )}
+      {state.kind === 'cancelled' && <p role="status">Cancelled; nothing was computed. Use “Compute again” to start over.</p>}
+      {state.kind === 'failed' && <p role="alert" className="error">The computation failed: {state.message}</p>}
+      {state.kind === 'done' && !state.outcome.ok && (
+        <div role="alert" className="error">
+          <p>{state.outcome.message}</p>
+          {state.outcome.errors !== undefined && (
+            <ul>
+              {state.outcome.errors.map((e) => (
+                <li key={`${e.kind}-${e.index}`}>{e.message}</li>
+              ))}
+            </ul>
+          )}
+        </div>
+      )}
+      {stale && <p role="status">Layers were added or changed their status since these figures were computed; use “Compute again” to bring them up to date.</p>}
+      {state.kind === 'done' && state.outcome.ok && <Dashboard result={state.outcome} projectId={projectId} />}
     </section>
   );
 }

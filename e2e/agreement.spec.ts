@@ -1,0 +1,130 @@
+import AxeBuilder from '@axe-core/playwright';
+import { expect, test, type Page } from '@playwright/test';
+import { spawnSync } from 'node:child_process';
+import { readFileSync } from 'node:fs';
+import { columnsRead } from '../src/core/formats';
+import { spansFromTags } from '../src/core/schemes';
+import { watchOrigins } from './helpers';
+
+// The demo project is built from these two files (src/ui/features/import/demo-load.ts), each with
+// status done; the test checks below that the app serves exactly these bytes for its demo.
+const FILES = ['sample-corpus/ann-a.iob2', 'sample-corpus/ann-b.iob2'] as const;
+const SLOW = 60_000;
+const AXE_TAGS = ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'];
+
+interface AgreeJson {
+  utterances: number;
+  kappa: { tag: number; slot: number; slotAnnotated: number };
+  intent: { kappa: number };
+  spans: { exactF1: number; overlapF1: number };
+  disagreements: { total: number; items: { id: string }[] };
+  ci: { kappa: { slot: { low: number; high: number } } };
+}
+
+/** The real command line on the same layers, as a user would run it. */
+function agree(): AgreeJson {
+  const run = spawnSync(process.execPath, ['bin/slotsmith.mjs', 'agree', '--json', ...FILES], { maxBuffer: 64 * 1024 * 1024 });
+  expect(run.status).toBe(0);
+  return JSON.parse(run.stdout.toString('utf8')) as AgreeJson;
+}
+
+/** As the screen rounds: three decimals. */
+const shown = (x: number) => x.toFixed(3);
+
+function axeSerious(page: Page) {
+  return new AxeBuilder({ page })
+    .withTags(AXE_TAGS)
+    .analyze()
+    .then((r) => r.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join(', ')})`));
+}
+
+async function demoOpen(page: Page) {
+  await page.goto('/');
+  await page.getByRole('button', { name: /Try the demo project/ }).click();
+  await expect(page.getByRole('heading', { name: 'Utterances: Home-repair demo' })).toBeVisible({ timeout: SLOW });
+}
+
+test('the agreement screen shows the command line’s figures for the demo layers', async ({ page, baseURL, request }) => {
+  test.setTimeout(180_000);
+  const foreign = watchOrigins(page, baseURL ?? '');
+  // The demo's files are the sample corpus, byte for byte.
+  for (const file of FILES) {
+    const served = await request.get(`/demo/${file.split('/').pop() ?? ''}`);
+    expect(served.ok()).toBe(true);
+    expect(Buffer.from(await served.body()).equals(readFileSync(file))).toBe(true);
+  }
+  const cli = agree();
+  expect(cli.utterances).toBe(400);
+
+  await demoOpen(page);
+  await page.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Agreement' }).click();
+  await expect(page.getByRole('heading', { name: 'Agreement: Home-repair demo' })).toBeVisible();
+  await expect(page.getByLabel('Layer A')).toHaveValue('ann-a');
+  await expect(page.getByLabel('Layer B')).toHaveValue('ann-b');
+  await expect(page.getByTestId('figure-kappa-slot')).toHaveText(shown(cli.kappa.slot), { timeout: SLOW });
+  await expect(page.getByTestId('figure-span-exact')).toHaveText(shown(cli.spans.exactF1));
+  await expect(page.getByTestId('figure-span-overlap')).toHaveText(shown(cli.spans.overlapF1));
+  await expect(page.getByTestId('figure-kappa-tag')).toHaveText(shown(cli.kappa.tag));
+  await expect(page.getByTestId('figure-kappa-annotated')).toHaveText(shown(cli.kappa.slotAnnotated));
+  await expect(page.getByTestId('figure-kappa-intent')).toHaveText(shown(cli.intent.kappa));
+  // Same utterances in the same order and the same seed: the same bootstrap interval.
+  const slotRow = page.getByRole('row', { name: /Token kappa, slot types/ });
+  await expect(slotRow).toContainText(`${shown(cli.ci.kappa.slot.low)} to ${shown(cli.ci.kappa.slot.high)}`);
+  await expect(slotRow).toContainText('almost perfect');
+  await expect(page.getByText(/Landis & Koch \(1977\) bands are a convention/)).toBeVisible();
+  await expect(page.getByTestId('agreement-compared')).toContainText('Compared 400 utterances');
+  await expect(page.getByTestId('agreement-compared')).toContainText('status done: ann-a 1,200, ann-b 1,200');
+  await expect(page.getByRole('img', { name: 'Token kappa per slot' })).toBeVisible();
+  await expect(page.getByRole('img', { name: /Slot types per token/ })).toBeVisible();
+  await expect(page.getByRole('img', { name: 'Slot kappa as layers were completed' })).toBeVisible();
+  await expect(page.getByText(`${cli.disagreements.total} utterances differ between ann-a and ann-b`)).toBeVisible();
+
+  expect(await axeSerious(page)).toEqual([]);
+
+  // The top disagreement is the command line's, and it opens in the resolver on the same pair.
+  const list = page.getByRole('list', { name: 'Disagreeing utterances' });
+  const top = cli.disagreements.items[0]?.id ?? '';
+  await expect(list.getByRole('listitem').first()).toContainText(top);
+  await list.getByRole('button', { name: new RegExp(`^Resolve ${top}:`) }).click();
+  await expect(page).toHaveURL(/#\/p\/\d+\/resolve\?a=ann-a&b=ann-b&u=\d+$/);
+  expect(foreign).toEqual([]);
+});
+
+test('counting drafts too changes nothing on the demo (all done) and says what was counted', async ({ page }) => {
+  test.setTimeout(120_000);
+  await demoOpen(page);
+  await page.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Agreement' }).click();
+  const cli = agree();
+  await expect(page.getByTestId('figure-kappa-slot')).toHaveText(shown(cli.kappa.slot), { timeout: SLOW });
+  await page.getByLabel('Count draft layers too').check();
+  await expect(page).toHaveURL(/drafts=1/);
+  await expect(page.getByTestId('agreement-compared')).toContainText('status done and draft', { timeout: SLOW });
+  await expect(page.getByTestId('figure-kappa-slot')).toHaveText(shown(cli.kappa.slot));
+  await page.getByLabel('Layer B').selectOption('ann-a');
+  await expect(page.getByText('Choose two different layers to compare.')).toBeVisible();
+});
+
+test('the overview shows the demo’s distribution and progress', async ({ page, baseURL }) => {
+  test.setTimeout(120_000);
+  const foreign = watchOrigins(page, baseURL ?? '');
+  const layers = FILES.map((f) => columnsRead(readFileSync(f)).utterances);
+  const spans = new Map<string, number>();
+  for (const u of layers.flat()) for (const s of spansFromTags(u.tags)) spans.set(s.slot, (spans.get(s.slot) ?? 0) + 1);
+  await demoOpen(page);
+  await page.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Overview' }).click();
+  await expect(page.getByRole('heading', { name: 'Overview: Home-repair demo' })).toBeVisible();
+  const headline = page.getByRole('definition');
+  await expect(page.getByLabel('Headline numbers')).toContainText('Utterances2,000', { timeout: SLOW });
+  await expect(page.getByLabel('Headline numbers')).toContainText('Utterances done by two or more400');
+  await expect(page.getByLabel('Headline numbers')).toContainText('Layers done2,400 of 2,400');
+  expect(await headline.count()).toBe(6);
+  await expect(page.getByRole('img', { name: 'Spans per slot' })).toBeVisible();
+  await expect(page.getByRole('img', { name: 'Layers per annotator by status' })).toBeVisible();
+  await page.getByText('Spans per slot as a table').click();
+  const table = page.getByRole('table', { name: 'Spans per slot' });
+  for (const [slot, n] of spans) await expect(table.getByRole('row', { name: new RegExp(`^${slot} `) })).toContainText(n.toLocaleString('en'));
+  expect(await axeSerious(page)).toEqual([]);
+  await page.getByLabel('Whose labels').selectOption('ann-b');
+  await expect(page.getByText(/Counted 1,200 layers with status done of ann-b/)).toBeVisible({ timeout: SLOW });
+  expect(foreign).toEqual([]);
+});

@@ -1,0 +1,56 @@
+/** The agreement worker run behind the screen: started for each new request, cancellable, never blocking the page. */
+import { useCallback, useEffect, useRef, useState } from 'react';
+import type { AgreementOutcome, AgreementProgress, AgreementRequest } from '../../../workers/agreement-run';
+import { JobCancelledError, type WorkerJob } from '../../../workers/worker-job';
+import { agreementStart } from './agreement-client';
+
+export type AgreementRunState =
+  | { kind: 'idle' }
+  | { kind: 'running'; progress: AgreementProgress | null }
+  | { kind: 'done'; outcome: AgreementOutcome; stamp: string }
+  | { kind: 'cancelled' }
+  | { kind: 'failed'; message: string };
+
+/**
+ * Runs `request` whenever it changes (by value) or `again` is called; cancel ends the worker at once.
+ * `stamp` (what the data looked like at the start) is handed back with the result, so the screen can
+ * tell when the figures no longer match the layers.
+ */
+export function useAgreementRun(request: AgreementRequest | null, stamp: string): { state: AgreementRunState; cancel: () => void; again: () => void } {
+  const [state, setState] = useState<AgreementRunState>({ kind: 'idle' });
+  const [round, setRound] = useState(0);
+  const job = useRef<WorkerJob<AgreementOutcome> | null>(null);
+  const key = request === null ? '' : JSON.stringify(request);
+  const stampNow = useRef(stamp);
+  useEffect(() => {
+    stampNow.current = stamp;
+  }, [stamp]);
+
+  useEffect(() => {
+    if (key === '') return;
+    const started = agreementStart(JSON.parse(key) as AgreementRequest, (progress) => setState({ kind: 'running', progress }));
+    job.current = started;
+    const startStamp = stampNow.current;
+    // The first paint of the run comes from the worker's first progress message; until then, say it started.
+    queueMicrotask(() => {
+      if (job.current === started) setState({ kind: 'running', progress: null });
+    });
+    started.result.then(
+      (outcome) => {
+        if (job.current === started) setState({ kind: 'done', outcome, stamp: startStamp });
+      },
+      (error: unknown) => {
+        if (job.current !== started) return;
+        setState(error instanceof JobCancelledError ? { kind: 'cancelled' } : { kind: 'failed', message: (error as Error).message });
+      },
+    );
+    return () => {
+      if (job.current === started) job.current = null;
+      started.cancel();
+    };
+  }, [key, round]);
+
+  const cancel = useCallback(() => job.current?.cancel(), []);
+  const again = useCallback(() => setRound((r) => r + 1), []);
+  return { state, cancel, again };
+}
