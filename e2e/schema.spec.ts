@@ -187,6 +187,7 @@ test('the labeller profile is chosen in the header without blocking the screen, 
   await panel.getByLabel('Id written into your labels').fill('gold');
   await panel.getByRole('button', { name: 'Start labelling' }).click();
   await expect(panel.getByText('“gold” is kept for the agreed labels')).toBeVisible();
+  await expect(panel.getByLabel('Id written into your labels')).toBeFocused();
   await panel.getByLabel('Id written into your labels').fill('rosa');
   await panel.getByRole('radio', { name: /^Adjudicator/ }).check();
   await panel.getByRole('button', { name: 'Start labelling' }).click();

@@ -1,5 +1,5 @@
 import { useLiveQuery } from 'dexie-react-hooks';
-import { useId, useState, type FormEvent } from 'react';
+import { useId, useRef, useState, type FormEvent } from 'react';
 import { ANNOTATOR_ROLES, type AnnotatorRole } from '../../../core/backup/model';
 import { annotatorList } from '../../../db';
 import { useNav } from '../../../state/nav';
@@ -31,6 +31,8 @@ export function ProfileChooser({ onChosen }: ProfileChooserProps) {
   const [idTouched, setIdTouched] = useState(current !== null && current.id !== profileIdFromName(current.name));
   const [role, setRole] = useState<AnnotatorRole>(current?.role ?? 'annotator');
   const [checked, setChecked] = useState(false);
+  const nameInput = useRef<HTMLInputElement>(null);
+  const idInput = useRef<HTMLInputElement>(null);
 
   const nameProblem = checked ? profileNameProblem(name) : null;
   const idProblem = checked ? profileIdProblem(profileId) : null;
@@ -43,10 +45,9 @@ export function ProfileChooser({ onChosen }: ProfileChooserProps) {
   function submit(event: FormEvent<HTMLFormElement>) {
     event.preventDefault();
     setChecked(true);
-    if (profileNameProblem(name) !== null || profileIdProblem(profileId) !== null) {
-      event.currentTarget.querySelector<HTMLElement>(profileNameProblem(name) !== null ? `#${CSS.escape(`${id}-name`)}` : `#${CSS.escape(`${id}-id`)}`)?.focus();
-      return;
-    }
+    // Keyboard users land on the field to fix.
+    if (profileNameProblem(name) !== null) return nameInput.current?.focus();
+    if (profileIdProblem(profileId) !== null) return idInput.current?.focus();
     choose({ id: profileId, name: name.trim(), role });
   }
 
@@ -71,6 +72,7 @@ export function ProfileChooser({ onChosen }: ProfileChooserProps) {
         <div className="profile-field">
           <label htmlFor={`${id}-name`}>Your name</label>
           <input
+            ref={nameInput}
             id={`${id}-name`}
             value={name}
             onChange={(e) => {
@@ -93,6 +95,7 @@ export function ProfileChooser({ onChosen }: ProfileChooserProps) {
             Made from your name; change it if someone else already uses it.
           </p>
           <input
+            ref={idInput}
             id={`${id}-id`}
             value={profileId}
             onChange={(e) => {
