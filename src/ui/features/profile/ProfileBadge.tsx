@@ -19,7 +19,7 @@ export function ProfileBadge() {
 
   // Opening moves focus into the panel; closing returns it to the button that opened it.
   useEffect(() => {
-    if (open) panel.current?.querySelector<HTMLElement>('button, input')?.focus();
+    if (open) panel.current?.querySelector<HTMLElement>('input')?.focus();
     else if (wasOpen.current) toggle.current?.focus();
     wasOpen.current = open;
   }, [open]);
