@@ -5,6 +5,7 @@ import { ExportView } from '../features/export/ExportView';
 import { demoLoad } from '../features/import/demo-load';
 import { ImportView } from '../features/import/ImportView';
 import { LabelView } from '../features/label/LabelView';
+import { TemporaryProfileChooser } from '../features/label/TemporaryProfileChooser';
 import { OverviewView } from '../features/overview/OverviewView';
 import { ProfileBadge } from '../features/profile/ProfileBadge';
 import { ResolveView } from '../features/resolve/ResolveView';
@@ -33,6 +34,8 @@ export const projectViews: {
   restore: ComponentType<{ onOpen: (projectId: number) => void }>;
   /** Who is labelling at this browser, shown in the header on every screen. */
   profile: ComponentType;
+  /** Choosing who labels, where a screen needs a profile first (the label screen). */
+  profileChooser: ComponentType<{ onChosen?: () => void }>;
 } = {
   overview: OverviewView,
   corpus: CorpusView,
@@ -47,4 +50,5 @@ export const projectViews: {
   demoLoad,
   restore: RestoreBackup,
   profile: ProfileBadge,
+  profileChooser: TemporaryProfileChooser,
 };

@@ -92,15 +92,20 @@ export class LabelEditor {
   private error: string | null = null;
   private readonly listeners = new Set<() => void>();
   private idleWaiters: (() => void)[] = [];
+  private reverseWaiting: ('undo' | 'redo')[] = [];
   private view: LabelEditorView;
-  /** Called when undo or redo changes another utterance than the one shown, so the screen can go there. */
-  onNavigate: (utteranceId: number) => void = () => undefined;
+  private onNavigate: (utteranceId: number) => void = () => undefined;
 
   constructor(
     private readonly db: SlotsmithDb,
     private readonly who: string,
   ) {
     this.view = this.viewBuild();
+  }
+
+  /** Called when undo or redo changes another utterance than the one shown, so the screen can go there. */
+  navigateSet(onNavigate: (utteranceId: number) => void): void {
+    this.onNavigate = onNavigate;
   }
 
   /** Fill the undo stack from the history table (after a reload), unless edits were made already. */
@@ -163,18 +168,26 @@ export class LabelEditor {
   }
 
   undo(): void {
-    this.reverse('undo');
+    this.reverseWaiting.push('undo');
+    this.reversePump();
   }
 
   redo(): void {
-    this.reverse('redo');
+    this.reverseWaiting.push('redo');
+    this.reversePump();
   }
 
-  private reverse(kind: 'undo' | 'redo'): void {
-    // One step at a time: the next step's entry depends on where this one lands.
-    if (this.conflict !== null || this.queue.some((i) => i.kind !== 'edit')) return;
+  // One step at a time: the next step's entry depends on where this one lands, so quick presses wait here.
+  private reversePump(): void {
+    if (this.conflict !== null) this.reverseWaiting = [];
+    if (this.queue.some((i) => i.kind !== 'edit')) return;
+    const kind = this.reverseWaiting.shift();
+    if (kind === undefined) return;
     const entry = kind === 'undo' ? undoPeek(this.stacks) : redoPeek(this.stacks);
-    if (entry === null) return;
+    if (entry === null) {
+      this.reverseWaiting = [];
+      return;
+    }
     const key: LayerKey = [entry.utteranceId, entry.annotator];
     this.queue.push({ key, op: { kind: 'replace', edit: entry.before }, kind, entry });
     this.changed();
@@ -226,6 +239,7 @@ export class LabelEditor {
     const mine = items.reduce<LayerEdit>((edit, i) => editApply(edit, i.op), mineBase);
     const mineOnTheirs = items.reduce<LayerEdit>((edit, i) => editApply(edit, i.op), theirs);
     this.conflict = { key: item.key, cause: item.kind, theirs, mine, mineOnTheirs, items };
+    this.reverseWaiting = [];
   }
 
   private async run(): Promise<void> {
@@ -246,6 +260,7 @@ export class LabelEditor {
           this.queue.shift();
           if (item.kind !== 'edit') this.stacks = item.kind === 'undo' ? undoDone(this.stacks, base.revision) : redoDone(this.stacks, base.revision);
           this.changed();
+          if (item.kind !== 'edit') this.reversePump();
           continue;
         }
         let row: LayerRow;
@@ -259,6 +274,7 @@ export class LabelEditor {
             // Anything else (disk full, utterance deleted): drop this layer's queued edits, show the stored state.
             this.error = `Not saved: ${errorText(caught)}`;
             this.queue = this.queue.filter((i) => !sameKey(i.key, item.key));
+            this.reverseWaiting = [];
             if (item.kind !== 'edit') this.stacks = undoDrop(this.stacks, item.kind);
           }
           this.changed();
@@ -271,6 +287,7 @@ export class LabelEditor {
         else this.stacks = item.kind === 'undo' ? undoDone(this.stacks, row.revision) : redoDone(this.stacks, row.revision);
         this.error = null;
         this.changed();
+        if (item.kind !== 'edit') this.reversePump();
       }
     } finally {
       this.running = false;

@@ -105,10 +105,10 @@ describe('LabelEditor', () => {
     const k2: LayerKey = [ids[1] as number, 'ana'];
     const editor = await opened(db, k1);
     const visited: number[] = [];
-    editor.onNavigate = (id) => {
+    editor.navigateSet((id) => {
       visited.push(id);
       void db.utterances.get(id).then(async (u) => editor.open([id, 'ana'], await layerGet(db, [id, 'ana']), (u?.tokens.length ?? 0) / 2));
-    };
+    });
     editor.edit({ kind: 'label', from: 4, to: 4, slot: 'day' });
     await editor.idle();
     editor.open(k2, await layerGet(db, k2), 5);
@@ -132,6 +132,26 @@ describe('LabelEditor', () => {
     expect(visited).toEqual([ids[0], ids[1]]);
     expect(await layerGet(db, k2)).toMatchObject({ revision: 3, tags: ['B-service', 'O', 'O', 'O', 'O'] });
     expect(editor.snapshot().canRedo).toBe(false);
+  });
+
+  it('quick undo presses wait their turn: three presses undo three edits', async () => {
+    const { db, ids } = await seeded();
+    const key: LayerKey = [ids[0] as number, 'ana'];
+    const editor = await opened(db, key);
+    editor.edit({ kind: 'label', from: 0, to: 0, slot: 'area' });
+    editor.edit({ kind: 'note', note: 'n' });
+    editor.edit({ kind: 'status', status: 'flagged' });
+    editor.edit({ kind: 'intent', intent: 'cancel' });
+    await editor.idle();
+    editor.undo();
+    editor.undo();
+    editor.undo();
+    await editor.idle();
+    expect(await layerGet(db, key)).toMatchObject({ revision: 7, tags: ['B-area', 'O', 'O', 'O', 'O', 'O'], note: '', status: 'draft', intent: null });
+    editor.redo();
+    editor.redo();
+    await editor.idle();
+    expect(await layerGet(db, key)).toMatchObject({ revision: 9, note: 'n', status: 'flagged', intent: null });
   });
 
   it('an undo over a change made elsewhere asks first; keeping theirs drops that undo step', async () => {

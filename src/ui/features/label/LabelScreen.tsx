@@ -1,0 +1,343 @@
+import { useCallback, useEffect, useMemo, useRef, useState, useSyncExternalStore } from 'react';
+import { ANNOTATOR_GOLD } from '../../../core/backup/model';
+import { selectionCaret, selectionClamp, selectionMove, selectionTarget, tagsNeedLegalising, type EditOp, type TokenSelection } from '../../../core/editing';
+import { labelNextUnlabelled, labelUtteranceStep } from '../../../db/label-nav';
+import type { LayerKey } from '../../../db/schema';
+import { tokensCount, tokensUnpack } from '../../../db/tokens';
+import { useNav } from '../../../state/nav';
+import { useSession, type Profile } from '../../../state/session';
+import { appDb } from '../../app/db';
+import { ConflictPrompt } from './ConflictPrompt';
+import { HelpOverlay } from './HelpOverlay';
+import { LayerFields } from './LayerFields';
+import { OtherLayers } from './OtherLayers';
+import { SlotLegend } from './SlotLegend';
+import { SlotSearch } from './SlotSearch';
+import { TokenStrip } from './TokenStrip';
+import { labelEditorFor } from './label-editor';
+import { labelCommandFor, type LabelCommand } from './label-keys';
+import { spanText } from './label-text';
+import { useLabelData } from './use-label-data';
+
+type Panel = 'none' | 'help' | 'slots';
+
+function typingTarget(el: Element): boolean {
+  return el.tagName === 'INPUT' || el.tagName === 'TEXTAREA' || el.tagName === 'SELECT' || (el instanceof HTMLElement && el.isContentEditable) || el.closest('dialog') !== null;
+}
+
+/** The span editor for one person in one project. */
+export function LabelScreen({ projectId, profile }: { projectId: number; profile: Profile }) {
+  const db = appDb();
+  const { query, go } = useNav();
+  const blind = useSession((s) => s.blind);
+  const blindSet = useSession((s) => s.blindSet);
+  const adjudicator = profile.role === 'adjudicator';
+  const layerName = adjudicator && query.layer === ANNOTATOR_GOLD ? ANNOTATOR_GOLD : profile.id;
+  const data = useLabelData(projectId, layerName);
+  const { project, utterance, tokens, layers } = data;
+  const editor = useMemo(() => labelEditorFor(db, projectId, profile.id), [db, projectId, profile.id]);
+  const view = useSyncExternalStore(editor.subscribe, editor.snapshot);
+  const [selectionState, setSelectionState] = useState<{ id: number | null; selection: TokenSelection }>({ id: null, selection: selectionCaret(0) });
+  const [panel, setPanel] = useState<Panel>('none');
+  const [said, setSaid] = useState('');
+  const strip = useRef<HTMLDivElement>(null);
+  const intentRef = useRef<HTMLSelectElement>(null);
+  const noteRef = useRef<HTMLTextAreaElement>(null);
+
+  const utteranceId = utterance?.id ?? null;
+  // The selection belongs to one utterance: another one starts at its first token.
+  const selection = selectionState.id === utteranceId ? selectionState.selection : selectionCaret(0);
+  const setSelection = useCallback(
+    (next: TokenSelection | ((s: TokenSelection) => TokenSelection)) =>
+      setSelectionState((prev) => {
+        const current = prev.id === utteranceId ? prev.selection : selectionCaret(0);
+        return { id: utteranceId, selection: typeof next === 'function' ? next(current) : next };
+      }),
+    [utteranceId],
+  );
+  const key: LayerKey | null = utteranceId === null ? null : [utteranceId, layerName];
+  const shown = view.key !== null && key !== null && view.key[0] === key[0] && view.key[1] === key[1] ? view.edit : null;
+  const slots = useMemo(() => project?.schema.slots ?? [], [project]);
+
+  const goTo = useCallback((id: number) => go('label', projectId, { ...useNav.getState().query, u: String(id) }), [go, projectId]);
+  useEffect(() => {
+    editor.navigateSet(goTo);
+  }, [editor, goTo]);
+
+  useEffect(() => {
+    void editor.undoSeed(projectId, adjudicator ? [profile.id, ANNOTATOR_GOLD] : [profile.id]);
+  }, [editor, projectId, profile.id, adjudicator]);
+
+  // A newly shown layer: read it once from the database (a live query may lag behind this tab's own save).
+  useEffect(() => {
+    if (utterance === null || utterance === undefined) return;
+    let live = true;
+    void db.layers.get([utterance.id, layerName]).then((row) => {
+      if (!live) return;
+      editor.open([utterance.id, layerName], row, tokensCount(utterance.tokens));
+      setSelection((s) => selectionClamp(s, tokensCount(utterance.tokens)));
+    });
+    return () => {
+      live = false;
+    };
+  }, [db, editor, utterance, layerName, setSelection]);
+
+  const ownRow = layers?.find((l) => l.annotator === layerName);
+  useEffect(() => {
+    if (key !== null) editor.storedSeen(key, ownRow);
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- `key` is rebuilt each render; its parts are listed.
+  }, [editor, ownRow, utteranceId, layerName]);
+
+  const edit = useCallback(
+    (op: EditOp) => {
+      editor.edit(op);
+    },
+    [editor],
+  );
+
+  function labelWith(slot: string) {
+    if (shown === null) return;
+    const target = selectionTarget(shown.tags, selection);
+    if (target === null) return;
+    edit({ kind: 'label', from: target.from, to: target.to, slot });
+    setSelection({ anchor: target.from, focus: target.to });
+    const first = tokens[target.from];
+    const last = tokens[target.to];
+    if (utterance && first && last) setSaid(`Labelled “${utterance.text.slice(first.start, last.end)}” as ${slot}.`);
+  }
+
+  async function step(to: 'next' | 'previous' | 'nextUnlabelled') {
+    if (!utterance) return;
+    const next =
+      to === 'nextUnlabelled' ? await labelNextUnlabelled(db, projectId, layerName, utterance.seq) : await labelUtteranceStep(db, projectId, utterance.seq, to === 'next' ? 1 : -1);
+    if (next === undefined) {
+      setSaid(to === 'nextUnlabelled' ? 'Every utterance has been started in this layer.' : to === 'next' ? 'This is the last utterance.' : 'This is the first utterance.');
+      return;
+    }
+    setSaid('');
+    goTo(next.id);
+  }
+
+  function run(command: LabelCommand) {
+    const length = tokens.length;
+    switch (command.kind) {
+      case 'move':
+        setSelection((s) => selectionMove(s, command.delta, length, command.extend));
+        break;
+      case 'edge': {
+        const to = command.to === 'first' ? 0 : Math.max(0, length - 1);
+        setSelection((s) => (command.extend ? { anchor: s.anchor, focus: to } : selectionCaret(to)));
+        break;
+      }
+      case 'label':
+        labelWith(command.slot);
+        break;
+      case 'remove': {
+        const target = shown === null ? null : selectionTarget(shown.tags, selection);
+        if (target !== null) edit({ kind: 'remove', from: target.from, to: target.to });
+        break;
+      }
+      case 'collapse':
+        setSelection((s) => selectionCaret(s.focus));
+        break;
+      case 'slotSearch':
+        setPanel('slots');
+        break;
+      case 'help':
+        setPanel('help');
+        break;
+      case 'utterance':
+        void step(command.to);
+        break;
+      case 'status':
+        edit({ kind: 'status', status: command.status });
+        setSaid(`Marked ${command.status}.`);
+        break;
+      case 'intentFocus':
+        intentRef.current?.focus();
+        break;
+      case 'noteFocus':
+        noteRef.current?.focus();
+        break;
+      case 'undo':
+        editor.undo();
+        break;
+      case 'redo':
+        editor.redo();
+        break;
+    }
+  }
+
+  function keyDown(event: KeyboardEvent) {
+    if (event.defaultPrevented || panel !== 'none' || view.conflict !== null || (event.target instanceof Element && typingTarget(event.target))) return;
+    const command = labelCommandFor({ key: event.key, shift: event.shiftKey, ctrl: event.ctrlKey, alt: event.altKey, meta: event.metaKey }, slots);
+    if (command === null) return;
+    const onButton = event.target instanceof HTMLElement && event.target.tagName === 'BUTTON';
+    // Arrows on a focused button stay with the button's own group; slot keys and Delete act on the tokens.
+    if ((command.kind === 'move' || command.kind === 'edge') && onButton) return;
+    if (command.kind === 'move' || command.kind === 'edge' || command.kind === 'label' || command.kind === 'remove') strip.current?.focus();
+    event.preventDefault();
+    run(command);
+  }
+
+  // Keys are heard on the whole window, so they keep working while the next utterance loads.
+  const keyHandler = useRef(keyDown);
+  useEffect(() => {
+    keyHandler.current = keyDown;
+  });
+  useEffect(() => {
+    const listener = (event: KeyboardEvent) => keyHandler.current(event);
+    window.addEventListener('keydown', listener);
+    return () => window.removeEventListener('keydown', listener);
+  }, []);
+
+  // Keyboard-first: a shown utterance takes the focus unless the user is somewhere else on purpose.
+  const ready = shown !== null;
+  useEffect(() => {
+    if (!ready) return;
+    const active = document.activeElement;
+    if (active === null || active === document.body) strip.current?.focus();
+  }, [ready, utteranceId]);
+
+  const conflictUtterance = useConflictUtterance(view.conflict?.key[0] ?? null);
+
+  if (project === null) return <p role="alert">This project does not exist (it may have been deleted in another tab).</p>;
+  const title = `Label${project ? `: ${project.name}` : ''}`;
+  const others = (layers ?? []).filter((l) => l.annotator !== layerName);
+
+  return (
+    <section aria-labelledby="label-title" className="label-screen">
+      <h2 id="label-title">{title}</h2>
+      <div className="label-bar">
+        <p className="label-where">
+          {utterance ? (
+            <>
+              Utterance {data.position?.toLocaleString('en') ?? '…'} of {data.total?.toLocaleString('en') ?? '…'}
+              {utterance.externalId !== undefined && <span className="muted"> · id {utterance.externalId}</span>}
+            </>
+          ) : utterance === null && data.total === 0 ? (
+            'This project has no utterances yet: bring some in first.'
+          ) : (
+            'Loading…'
+          )}
+        </p>
+        <div className="label-actions" role="group" aria-label="Move between utterances">
+          <button type="button" onClick={() => void step('previous')} disabled={!utterance} aria-keyshortcuts="[">
+            Previous
+          </button>
+          <button type="button" onClick={() => void step('next')} disabled={!utterance} aria-keyshortcuts="]">
+            Next
+          </button>
+          <button type="button" onClick={() => void step('nextUnlabelled')} disabled={!utterance} aria-keyshortcuts="Shift+N">
+            Next not started
+          </button>
+        </div>
+        <div className="label-actions" role="group" aria-label="Undo and help">
+          <button type="button" onClick={() => editor.undo()} disabled={!view.canUndo} aria-keyshortcuts="Control+Z">
+            Undo
+          </button>
+          <button type="button" onClick={() => editor.redo()} disabled={!view.canRedo} aria-keyshortcuts="Control+Shift+Z">
+            Redo
+          </button>
+          <button type="button" onClick={() => setPanel('help')} aria-keyshortcuts="?">
+            Keys (?)
+          </button>
+        </div>
+      </div>
+      <div className="label-bar">
+        <p>
+          Labelling as <strong>{profile.name}</strong>, into the layer <code>{layerName}</code>.
+        </p>
+        {adjudicator && (
+          <label>
+            <input type="checkbox" checked={layerName === ANNOTATOR_GOLD} onChange={(e) => go('label', projectId, { ...query, layer: e.target.checked ? ANNOTATOR_GOLD : '' })} /> Write the gold layer
+          </label>
+        )}
+        <label>
+          <input type="checkbox" checked={blind} onChange={(e) => blindSet(e.target.checked)} /> Blind labelling (hide other layers)
+        </label>
+      </div>
+
+      {view.newer !== null && shown !== null && (
+        <p role="status" className="label-notice">
+          This utterance was changed in another tab or window (now revision {view.newer.revision}).{' '}
+          <button type="button" onClick={() => editor.newerTake()}>
+            Show the newer version
+          </button>
+        </p>
+      )}
+      {utterance && shown !== null && tagsNeedLegalising(shown.tags) && (
+        <p className="label-notice">
+          The stored tags of this layer break the IOB2 rules; they are shown as the CoNLL-2000 evaluation reads them, and your next edit stores them as legal IOB2.
+        </p>
+      )}
+
+      {utterance && shown !== null ? (
+        <>
+          <TokenStrip
+            ref={strip}
+            text={utterance.text}
+            tokens={tokens}
+            tags={shown.tags}
+            slots={slots}
+            selection={selection}
+            onSelect={setSelection}
+            label={`Tokens of the utterance. Selected: ${selectedText(utterance.text, tokens, selection)}`}
+            idPrefix="label"
+          />
+          <SlotLegend slots={slots} onPick={labelWith} disabled={view.conflict !== null} />
+          <LayerFields ref={intentRef} noteRef={noteRef} edit={shown} layerId={`${utterance.id}|${layerName}`} intents={project?.schema.intents ?? []} onEdit={edit} />
+          <OtherLayers layers={others} blind={blind} text={utterance.text} tokens={tokens} slots={slots} />
+        </>
+      ) : (
+        utterance !== null && <p>Loading…</p>
+      )}
+
+      <p role="status" className="label-saved">
+        {view.error ?? (view.conflict !== null ? 'Waiting for your choice about the other version.' : view.saving ? 'Saving…' : view.revision > 0 ? `Saved (revision ${view.revision}).` : '')}
+      </p>
+      <p role="status" className="label-sr-only">
+        {said}
+      </p>
+
+      <HelpOverlay open={panel === 'help'} slots={slots} onClose={() => setPanel('none')} />
+      <SlotSearch
+        open={panel === 'slots'}
+        slots={slots}
+        onClose={() => setPanel('none')}
+        onPick={(slot) => {
+          setPanel('none');
+          labelWith(slot);
+        }}
+      />
+      <ConflictPrompt
+        conflict={view.conflict}
+        text={conflictUtterance?.text ?? ''}
+        tokens={conflictUtterance?.tokens ?? []}
+        onKeepTheirs={() => editor.conflictKeepTheirs()}
+        onApplyMine={() => editor.conflictApplyMine()}
+      />
+    </section>
+  );
+}
+
+function selectedText(text: string, tokens: readonly { start: number; end: number }[], selection: TokenSelection): string {
+  const from = Math.min(selection.anchor, selection.focus);
+  const to = Math.max(selection.anchor, selection.focus);
+  return spanText(text, tokens, { start: from, end: to + 1, slot: '' }) || 'nothing';
+}
+
+function useConflictUtterance(id: number | null): { text: string; tokens: { start: number; end: number }[] } | null {
+  const [value, setValue] = useState<{ id: number; text: string; tokens: { start: number; end: number }[] } | null>(null);
+  useEffect(() => {
+    if (id === null) return;
+    let live = true;
+    void appDb()
+      .utterances.get(id)
+      .then((u) => live && u !== undefined && setValue({ id, text: u.text, tokens: tokensUnpack(u.tokens) }));
+    return () => {
+      live = false;
+    };
+  }, [id]);
+  return value !== null && value.id === id ? value : null;
+}
