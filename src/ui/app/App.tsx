@@ -16,6 +16,7 @@ const VIEW_LABELS: Record<Exclude<View, 'projects'>, string> = {
   schema: 'Slots and intents',
   import: 'Bring in data',
   export: 'Write out data',
+  team: 'Team work',
   settings: 'Project settings',
 };
 
@@ -43,9 +44,15 @@ export function App() {
   const notice = useStartupCleanup();
   let screen: ReactNode;
   const Restore = projectViews.restore;
+  const PackOpen = projectViews.packOpen;
   const Profile = projectViews.profile;
   if (view === 'projects' || projectId === null) {
-    const restore = <Restore onOpen={(id) => go('settings', id)} />;
+    const restore = (
+      <>
+        <Restore onOpen={(id) => go('settings', id)} />
+        <PackOpen onOpen={(id) => go('team', id)} />
+      </>
+    );
     screen = <ProjectsView onOpen={(id) => go('corpus', id)} onDemo={projectViews.demoLoad} extra={restore} />;
   }
   else {

@@ -13,6 +13,8 @@ import { RulesView } from '../features/rules/RulesView';
 import { SchemaView } from '../features/schema/SchemaView';
 import { RestoreBackup } from '../features/settings/RestoreBackup';
 import { SettingsView } from '../features/settings/SettingsView';
+import { PackOpen } from '../features/team/PackOpen';
+import { TeamView } from '../features/team/TeamView';
 
 /** The per-project screens, composed here so features never import each other. */
 export interface ProjectViewProps {
@@ -29,9 +31,12 @@ export const projectViews: {
   schema: ComponentType<ProjectViewProps>;
   import: ComponentType<ProjectViewProps>;
   export: ComponentType<ProjectViewProps>;
+  team: ComponentType<ProjectViewProps>;
   settings: ComponentType<ProjectViewProps>;
   demoLoad: (() => Promise<number>) | undefined;
   restore: ComponentType<{ onOpen: (projectId: number) => void }>;
+  /** Opening a pack file from the lead, on the project list. */
+  packOpen: ComponentType<{ onOpen: (projectId: number) => void }>;
   /** Who is labelling at this browser, shown in the header on every screen. */
   profile: ComponentType;
   /** Choosing who labels, where a screen needs a profile first (the label screen). */
@@ -46,9 +51,11 @@ export const projectViews: {
   schema: SchemaView,
   import: ImportView,
   export: ExportView,
+  team: TeamView,
   settings: SettingsView,
   demoLoad,
   restore: RestoreBackup,
+  packOpen: PackOpen,
   profile: ProfileBadge,
   profileChooser: TemporaryProfileChooser,
 };
