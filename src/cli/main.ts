@@ -5,7 +5,10 @@ import { PRODUCT_NAME } from '../core/version';
 import { agreeRun } from './commands/agree';
 import { checkRun } from './commands/check';
 import { convertRun, OUTPUT_FORMATS, type OutputFormat } from './commands/convert';
+import { evaluateRun } from './commands/evaluate';
 import { rulesRun } from './commands/rules';
+import { tagRun } from './commands/tag';
+import { trainRun } from './commands/train';
 import { EXIT_BAD_INPUT, EXIT_OK } from './exit-codes';
 import { type CliIo, processIo } from './io';
 import { INPUT_FORMATS, type InputFormat } from './load';
@@ -28,6 +31,14 @@ Usage:
       Cohen's kappa on tags, slot types and intents, span F1, per-slot figures, and with three or
       more layers Fleiss' kappa, Krippendorff's alpha and pairwise kappas; N bootstrap resamples by
       utterance (default 1000; 0 = no intervals). Exit 2 on malformed or mismatched input.
+  slotsmith train FILE... -o MODEL [--iterations N] [--c2 X] [--seed S] [--from FORMAT] [--scheme S]
+      Train a CRF slot tagger (window-of-two word features, L-BFGS, L2 weight c2, default 1;
+      at most N iterations, default 100) on labelled files and write the model file.
+  slotsmith tag MODEL IN [-o OUT] [--to iob1|iob2|bioes|jsonl] [--from FORMAT]
+      Tag every utterance of IN (any input format, plain text too) with the model; IOB2 by default.
+  slotsmith evaluate MODEL GOLD [--json] [--from FORMAT] [--scheme S]
+      Tag GOLD and score spans against its tags: precision, recall and F1 per slot and overall
+      (micro), exact span match as in the CoNLL-2000 evaluation, plus whole-utterance matches.
   slotsmith rules [--scheme iob1|iob2|bioes] [--json]
       List the rule ids that check reports, with what each means.
   slotsmith --help | --version
@@ -45,6 +56,13 @@ function countParse(value: string | undefined, flag: string): number | undefined
   if (value === undefined) return undefined;
   if (!/^\d+$/.test(value)) throw new UsageError(`${flag} takes a whole number (got "${value}")`);
   return Number(value);
+}
+
+function numberParse(value: string | undefined, flag: string): number | undefined {
+  if (value === undefined) return undefined;
+  const parsed = Number(value);
+  if (value.trim() === '' || !Number.isFinite(parsed) || parsed < 0) throw new UsageError(`${flag} takes a number ≥ 0 (got "${value}")`);
+  return parsed;
 }
 
 function maskKindsParse(value: string): MaskKind[] {
@@ -69,6 +87,8 @@ function parse(argv: string[]) {
       mask: { type: 'string' },
       bootstrap: { type: 'string' },
       seed: { type: 'string' },
+      iterations: { type: 'string' },
+      c2: { type: 'string' },
       json: { type: 'boolean', default: false },
       help: { type: 'boolean', short: 'h', default: false },
       version: { type: 'boolean', short: 'v', default: false },
@@ -110,6 +130,22 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
         const seed = countParse(values.seed, '--seed');
         return agreeRun(files, { ...load, json: values.json, ...(bootstrap !== undefined && { bootstrap }), ...(seed !== undefined && { seed }) }, io);
       }
+      case 'train': {
+        if (files.length === 0) throw new UsageError('train needs at least one labelled FILE');
+        if (values.output === undefined) throw new UsageError('train needs -o MODEL');
+        const iterations = countParse(values.iterations, '--iterations');
+        const c2 = numberParse(values.c2, '--c2');
+        const seed = countParse(values.seed, '--seed');
+        return await trainRun(files, { ...load, output: values.output, ...(iterations !== undefined && { iterations }), ...(c2 !== undefined && { c2 }), ...(seed !== undefined && { seed }) }, io);
+      }
+      case 'tag': {
+        if (files.length !== 2) throw new UsageError('tag takes MODEL and one input file');
+        const to = oneOf<OutputFormat>(values.to, OUTPUT_FORMATS, '--to');
+        return tagRun(files[0] as string, files[1] as string, { ...load, ...(to !== undefined && { to }), ...(values.output !== undefined && { output: values.output }) }, io);
+      }
+      case 'evaluate':
+        if (files.length !== 2) throw new UsageError('evaluate takes MODEL and one GOLD file');
+        return evaluateRun(files[0] as string, files[1] as string, { ...load, json: values.json }, io);
       case 'rules':
         if (files.length > 0) throw new UsageError('rules takes no files');
         return rulesRun({ ...(scheme && { scheme }), json: values.json }, io);
