@@ -136,7 +136,9 @@ class DelimitedParser implements TextParser {
   private batchParse(batch: string): void {
     let rowStart = 0;
     let line = this.bufferLine;
-    Papa.parse<string[]>(batch, {
+    // papaparse drops a U+FEFF that starts its input; the file's BOM is gone by now, so one here is data
+    // (a record starting with U+FEFF) and must not depend on where a batch begins: give papaparse a spare.
+    Papa.parse<string[]>(batch.charCodeAt(0) === BOM ? `\uFEFF${batch}` : batch, {
       delimiter: this.delimiter ?? ',',
       newline: '\n',
       quoteChar: '"',

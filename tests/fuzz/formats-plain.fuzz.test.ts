@@ -1,0 +1,10 @@
+import { describe, it } from 'vitest';
+import { FUZZ_TIMEOUT, fuzzRuns } from './budget';
+import { READER_TARGETS, readerFuzzProperty } from './properties';
+
+describe('fuzz: plain text and CSV/TSV readers (bytes and text, whole and chunked)', () => {
+  for (const target of READER_TARGETS.filter((t) => t.name === 'text' || t.name.startsWith('csv') || t.name.startsWith('tsv'))) {
+    const { name, run } = readerFuzzProperty(target);
+    it(name, () => run(fuzzRuns(target.name)), FUZZ_TIMEOUT);
+  }
+});
