@@ -4,13 +4,16 @@
  * disagreement) in typed arrays, plus the texts lower-cased in one string for search. Filters and
  * sorts then run over these arrays in milliseconds; rows themselves are read page by page
  * (corpus-rows.ts). At 100k utterances the index is a few megabytes, mostly the search text.
+ * Reading 100k utterances and their layers from IndexedDB takes seconds, so label edits update the
+ * index in place (from the history rows they write) instead of rebuilding it.
  */
 import Dexie from 'dexie';
 import { LAYER_STATUSES, type LayerStatus } from '../core/backup/model';
+import { spansFromTags } from '../core/schemes';
+import type { LabelSchema } from '../core/rules';
 import type { Scheme } from '../core/types';
 import { annotatorIsHuman, labelSchemaOf, layersDisagree, layersDone, layerViolationCount } from './corpus-facts';
-import type { LayerRow, SlotsmithDb } from './schema';
-import { spansFromTags } from '../core/schemes';
+import type { LayerRow, ProjectRow, SlotsmithDb, UtteranceRow } from './schema';
 
 /** One annotator's layer over all utterances (index i = the i-th utterance in seq order). */
 export interface LayerColumn {
@@ -25,8 +28,8 @@ export interface LayerColumn {
 
 export interface CorpusIndex {
   projectId: number;
-  /** What the index was built from; a different signature means it is stale. */
-  signature: string;
+  /** What the index was built from (see corpusIndexUpdate). */
+  signature: CorpusSignature;
   scheme: Scheme;
   /** Utterance ids in seq order. */
   ids: Int32Array;
@@ -48,36 +51,144 @@ export interface CorpusIndex {
 export const STATUS_CODE: Readonly<Record<LayerStatus, number>> = Object.fromEntries(LAYER_STATUSES.map((s, i) => [s, i + 1])) as Record<LayerStatus, number>;
 
 /** Rows read per transaction: big enough to be quick, small enough not to hold the whole project at once. */
-const CHUNK = 2000;
+const CHUNK = 5000;
+/** More edited utterances than this since the index was built: rebuilding is as quick as updating. */
+const UPDATE_MAX = 5000;
 
-/**
- * Cheap to compute (index counts and the project row only): changes with every import, edit
- * (history grows), deletion and schema change.
- */
-export async function corpusIndexSignature(db: SlotsmithDb, projectId: number): Promise<string> {
+/** What an index was built from; cheap to read (index counts, the project row, one history key). */
+export interface CorpusSignature {
+  /** The project's scheme and schema (and its last change), as JSON; 'missing' when it is gone. */
+  project: string;
+  utterances: number;
+  layers: number;
+  /** Highest history id of the project (0: none): every label edit writes one history row. */
+  historyLast: number;
+}
+
+export async function corpusIndexSignature(db: SlotsmithDb, projectId: number): Promise<CorpusSignature> {
   const { minKey, maxKey } = Dexie;
   return db.transaction('r', [db.projects, db.utterances, db.layers, db.history], async () => {
     const project = await db.projects.get(projectId);
-    if (project === undefined) return 'missing';
+    if (project === undefined) return { project: 'missing', utterances: 0, layers: 0, historyLast: 0 };
     const utterances = await db.utterances.where('[projectId+seq]').between([projectId, minKey], [projectId, maxKey]).count();
     const layers = await db.layers.where('[projectId+annotator+status]').between([projectId, minKey, minKey], [projectId, maxKey, maxKey]).count();
-    const edits = await db.history.where('projectId').equals(projectId).count();
-    return JSON.stringify([utterances, layers, edits, project.updated, project.scheme, project.schema]);
+    const last = await db.history.where('projectId').equals(projectId).reverse().limit(1).primaryKeys();
+    return { project: JSON.stringify([project.updated, project.scheme, project.schema]), utterances, layers, historyLast: last[0] ?? 0 };
   });
+}
+
+export function corpusSignatureSame(a: CorpusSignature, b: CorpusSignature): boolean {
+  return a.project === b.project && a.utterances === b.utterances && a.layers === b.layers && a.historyLast === b.historyLast;
 }
 
 function columnMake(n: number): LayerColumn {
   return { status: new Uint8Array(n), intent: new Uint16Array(n), violations: new Uint16Array(n), slots: new Map() };
 }
 
-/** Build the index from the database in chunks of utterances (and their layers) in seq order. */
-export async function corpusIndexBuild(db: SlotsmithDb, projectId: number): Promise<CorpusIndex> {
+interface Rules {
+  scheme: Scheme;
+  schema: LabelSchema | null;
+  intentCode: (name: string | null | undefined) => number;
+}
+
+function rulesOf(index: CorpusIndex, project: ProjectRow): Rules {
+  const codes = new Map(index.intents.map((name, i) => [name, i + 1]));
+  return {
+    scheme: project.scheme,
+    schema: labelSchemaOf(project.schema),
+    intentCode: (name) => {
+      if (name === null || name === undefined || name === '') return 0;
+      let code = codes.get(name);
+      if (code === undefined) {
+        code = index.intents.push(name);
+        codes.set(name, code);
+      }
+      return code;
+    },
+  };
+}
+
+/** Write utterance i's layer facts into the index (after clearing what it held). */
+function utteranceLayersSet(index: CorpusIndex, i: number, layers: readonly LayerRow[], rules: Rules): void {
+  const n = index.intentHint.length;
+  for (const column of index.layers.values()) {
+    column.status[i] = 0;
+    column.intent[i] = 0;
+    column.violations[i] = 0;
+    for (const present of column.slots.values()) present[i] = 0;
+  }
+  for (const layer of layers) {
+    let column = index.layers.get(layer.annotator);
+    if (column === undefined) {
+      column = columnMake(n);
+      index.layers.set(layer.annotator, column);
+    }
+    column.status[i] = STATUS_CODE[layer.status] ?? 0;
+    column.intent[i] = rules.intentCode(layer.intent);
+    column.violations[i] = Math.min(0xffff, layerViolationCount(layer, rules.scheme, rules.schema));
+    for (const span of spansFromTags(layer.tags)) {
+      let present = column.slots.get(span.slot);
+      if (present === undefined) {
+        present = new Uint8Array(n);
+        column.slots.set(span.slot, present);
+      }
+      present[i] = 1;
+    }
+  }
+  const counts = layersDone(layers);
+  index.done[i] = Math.min(255, counts.done);
+  index.humanLayers[i] = Math.min(255, counts.layers);
+  index.disagree[i] = layersDisagree(layers) ? 1 : 0;
+}
+
+function annotatorsSorted(names: Iterable<string>): string[] {
+  return [...names].sort((a, b) => Number(!annotatorIsHuman(a)) - Number(!annotatorIsHuman(b)) || (a < b ? -1 : a > b ? 1 : 0));
+}
+
+interface Chunk {
+  utterances: UtteranceRow[];
+  layers: LayerRow[];
+}
+
+function chunkRead(db: SlotsmithDb, projectId: number, afterSeq: number | null): Promise<Chunk> {
   const { minKey, maxKey } = Dexie;
+  const lower = afterSeq === null ? [projectId, minKey] : [projectId, afterSeq];
+  return db.transaction('r', [db.utterances, db.layers], async () => {
+    const utterances = await db.utterances.where('[projectId+seq]').between(lower, [projectId, maxKey], afterSeq === null, true).limit(CHUNK).toArray();
+    if (utterances.length === 0) return { utterances, layers: [] };
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (const u of utterances) {
+      lo = Math.min(lo, u.id);
+      hi = Math.max(hi, u.id);
+    }
+    // Ids of one import are consecutive, so one key range covers a chunk's layers (others are skipped later).
+    const layers = await db.layers.where('[utteranceId+annotator]').between([lo, minKey], [hi, maxKey], true, true).toArray();
+    return { utterances, layers };
+  });
+}
+
+/** Layers grouped by utterance id, keeping only the utterances asked for. */
+function layersByUtterance(layers: readonly LayerRow[], projectId: number, wanted: { has: (id: number) => boolean }): Map<number, LayerRow[]> {
+  const by = new Map<number, LayerRow[]>();
+  for (const layer of layers) {
+    if (layer.projectId !== projectId || !wanted.has(layer.utteranceId)) continue;
+    const list = by.get(layer.utteranceId);
+    if (list === undefined) by.set(layer.utteranceId, [layer]);
+    else list.push(layer);
+  }
+  return by;
+}
+
+/**
+ * Build the index from the database in chunks of utterances (and their layers) in seq order; the
+ * next chunk is read while the current one is worked through. `onProgress` gets utterances done.
+ */
+export async function corpusIndexBuild(db: SlotsmithDb, projectId: number, onProgress?: (done: number, total: number) => void): Promise<CorpusIndex> {
   const signature = await corpusIndexSignature(db, projectId);
   const project = await db.projects.get(projectId);
   if (project === undefined) throw new Error(`project ${projectId} does not exist`);
-  const n = await db.utterances.where('[projectId+seq]').between([projectId, minKey], [projectId, maxKey]).count();
-  const schema = labelSchemaOf(project.schema);
+  const n = signature.utterances;
   const index: CorpusIndex = {
     projectId,
     signature,
@@ -93,81 +204,29 @@ export async function corpusIndexBuild(db: SlotsmithDb, projectId: number): Prom
     text: '',
     textStart: new Int32Array(n + 1),
   };
-  const intentCodes = new Map<string, number>();
-  const intentCode = (name: string | null | undefined): number => {
-    if (name === null || name === undefined || name === '') return 0;
-    let code = intentCodes.get(name);
-    if (code === undefined) {
-      code = index.intents.push(name);
-      intentCodes.set(name, code);
-    }
-    return code;
-  };
+  const rules = rulesOf(index, project);
   const texts: string[] = [];
   let offset = 0;
   let at = 0;
-  let afterSeq: number | null = null;
-  while (at < n) {
-    const lower: [number, number] = afterSeq === null ? [projectId, minKey as number] : [projectId, afterSeq];
-    const chunk = await db.transaction('r', [db.utterances, db.layers], async () => {
-      const utterances = await db.utterances.where('[projectId+seq]').between(lower, [projectId, maxKey], afterSeq === null, true).limit(CHUNK).toArray();
-      if (utterances.length === 0) return { utterances, layers: [] as LayerRow[] };
-      let lo = Infinity;
-      let hi = -Infinity;
-      for (const u of utterances) {
-        lo = Math.min(lo, u.id);
-        hi = Math.max(hi, u.id);
-      }
-      // Ids of one import are consecutive, so one key range covers a chunk's layers (others are skipped below).
-      const layers = await db.layers.where('[utteranceId+annotator]').between([lo, minKey], [hi, maxKey], true, true).toArray();
-      return { utterances, layers };
-    });
-    if (chunk.utterances.length === 0) break;
+  let pending: Promise<Chunk> | null = chunkRead(db, projectId, null);
+  while (pending !== null) {
+    const chunk: Chunk = await pending;
+    const last = chunk.utterances[chunk.utterances.length - 1];
+    pending = last === undefined || at + chunk.utterances.length >= n ? null : chunkRead(db, projectId, last.seq);
     const position = new Map<number, number>();
     for (const u of chunk.utterances) {
       if (at >= n) break;
       index.ids[at] = u.id;
-      index.intentHint[at] = intentCode(u.intentHint);
+      index.intentHint[at] = rules.intentCode(u.intentHint);
       const text = u.text.toLowerCase();
       texts.push(text);
       index.textStart[at] = offset;
       offset += text.length + 1;
       position.set(u.id, at);
       at += 1;
-      afterSeq = u.seq;
     }
-    const byUtterance = new Map<number, LayerRow[]>();
-    for (const layer of chunk.layers) {
-      if (layer.projectId !== projectId || !position.has(layer.utteranceId)) continue;
-      const list = byUtterance.get(layer.utteranceId);
-      if (list === undefined) byUtterance.set(layer.utteranceId, [layer]);
-      else list.push(layer);
-    }
-    for (const [utteranceId, layers] of byUtterance) {
-      const i = position.get(utteranceId) as number;
-      for (const layer of layers) {
-        let column = index.layers.get(layer.annotator);
-        if (column === undefined) {
-          column = columnMake(n);
-          index.layers.set(layer.annotator, column);
-        }
-        column.status[i] = STATUS_CODE[layer.status] ?? 0;
-        column.intent[i] = intentCode(layer.intent);
-        column.violations[i] = Math.min(0xffff, layerViolationCount(layer, project.scheme, schema));
-        for (const span of spansFromTags(layer.tags)) {
-          let present = column.slots.get(span.slot);
-          if (present === undefined) {
-            present = new Uint8Array(n);
-            column.slots.set(span.slot, present);
-          }
-          present[i] = 1;
-        }
-      }
-      const counts = layersDone(layers);
-      index.done[i] = Math.min(255, counts.done);
-      index.humanLayers[i] = Math.min(255, counts.layers);
-      index.disagree[i] = layersDisagree(layers) ? 1 : 0;
-    }
+    for (const [utteranceId, layers] of layersByUtterance(chunk.layers, projectId, position)) utteranceLayersSet(index, position.get(utteranceId) as number, layers, rules);
+    onProgress?.(at, n);
   }
   // A count taken before a concurrent delete may exceed what the pass met; trim to what was read.
   if (at < n) {
@@ -176,11 +235,51 @@ export async function corpusIndexBuild(db: SlotsmithDb, projectId: number): Prom
   }
   index.textStart[at] = offset;
   index.text = texts.join('\u0000') + '\u0000';
-  index.annotators = [...index.layers.keys()].sort((a, b) => Number(!annotatorIsHuman(a)) - Number(!annotatorIsHuman(b)) || (a < b ? -1 : a > b ? 1 : 0));
+  index.annotators = annotatorsSorted(index.layers.keys());
   return index;
 }
 
-/** Number of utterances in the index. */
-export function corpusIndexSize(index: CorpusIndex): number {
-  return index.ids.length;
+const positions = new WeakMap<CorpusIndex, Map<number, number>>();
+
+function positionOf(index: CorpusIndex, utteranceId: number): number | undefined {
+  let map = positions.get(index);
+  if (map === undefined) {
+    map = new Map();
+    index.ids.forEach((id, i) => (map as Map<number, number>).set(id, i));
+    positions.set(index, map);
+  }
+  return map.get(utteranceId);
+}
+
+/**
+ * Bring the index up to `next` in place when only label edits happened since it was built: the
+ * same utterances and project settings, and as many new layers as the new history rows created.
+ * Returns false when that does not hold (an import, a deletion, a schema change): rebuild then.
+ */
+export async function corpusIndexUpdate(db: SlotsmithDb, index: CorpusIndex, next: CorpusSignature): Promise<boolean> {
+  const before = index.signature;
+  if (next.project !== before.project || next.utterances !== before.utterances || next.historyLast < before.historyLast) return false;
+  const { minKey, maxKey } = Dexie;
+  const projectId = index.projectId;
+  const done = await db.transaction('r', [db.projects, db.history, db.layers], async () => {
+    const edits = (await db.history.where(':id').above(before.historyLast).toArray()).filter((h) => h.projectId === projectId && h.id <= next.historyLast);
+    const created = edits.filter((h) => h.before === null).length;
+    const touched = [...new Set(edits.map((h) => h.utteranceId))];
+    if (before.layers + created !== next.layers || touched.length > UPDATE_MAX) return null;
+    const project = await db.projects.get(projectId);
+    if (project === undefined) return null;
+    const layers: LayerRow[] = [];
+    for (const id of touched) layers.push(...(await db.layers.where('[utteranceId+annotator]').between([id, minKey], [id, maxKey], true, true).toArray()));
+    return { project, touched, layers };
+  });
+  if (done === null) return false;
+  const rules = rulesOf(index, done.project);
+  const by = layersByUtterance(done.layers, projectId, new Set(done.touched));
+  for (const id of done.touched) {
+    const i = positionOf(index, id);
+    if (i !== undefined) utteranceLayersSet(index, i, by.get(id) ?? [], rules);
+  }
+  index.annotators = annotatorsSorted(index.layers.keys());
+  index.signature = next;
+  return true;
 }

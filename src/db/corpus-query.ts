@@ -70,14 +70,27 @@ function textMatches(index: CorpusIndex, needle: string): Uint8Array {
 const textRanks = new WeakMap<CorpusIndex, Int32Array>();
 const collator = new Intl.Collator(undefined, { sensitivity: 'base', numeric: true });
 
+/**
+ * The text's sort key: lower-cased (already, in the index) with accents taken off, compared by code
+ * unit. A collator compares 100k texts several times slower; this order differs from it only for
+ * digits and letters outside the basic Latin ones.
+ */
+export function textSortKey(lowerText: string): string {
+  return lowerText.normalize('NFD').replace(/\p{M}+/gu, '');
+}
+
 /** Rank of each text in alphabetical order (computed once per index, on the first sort by text). */
 function textRank(index: CorpusIndex): Int32Array {
   let rank = textRanks.get(index);
   if (rank !== undefined) return rank;
   const n = index.ids.length;
-  const texts: string[] = new Array<string>(n);
-  for (let i = 0; i < n; i++) texts[i] = index.text.slice(index.textStart[i], (index.textStart[i + 1] as number) - 1);
-  const order = Int32Array.from({ length: n }, (_, i) => i).sort((a, b) => collator.compare(texts[a] as string, texts[b] as string) || a - b);
+  const keys: string[] = new Array<string>(n);
+  for (let i = 0; i < n; i++) keys[i] = textSortKey(index.text.slice(index.textStart[i], (index.textStart[i + 1] as number) - 1));
+  const order = Int32Array.from({ length: n }, (_, i) => i).sort((a, b) => {
+    const ka = keys[a] as string;
+    const kb = keys[b] as string;
+    return ka < kb ? -1 : ka > kb ? 1 : a - b;
+  });
   rank = new Int32Array(n);
   order.forEach((position, r) => {
     (rank as Int32Array)[position] = r;

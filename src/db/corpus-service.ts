@@ -1,9 +1,9 @@
 /**
- * The utterance table's query service: keeps the index of the project last asked about and
- * rebuilds it only when the project's signature changed. Runs in the corpus worker in the app and
- * directly in tests.
+ * The utterance table's query service: keeps the index of the project last asked about, updates it
+ * in place after label edits and rebuilds it after anything else (see corpusIndexUpdate). Runs in
+ * the corpus worker in the app and directly in tests.
  */
-import { corpusIndexBuild, corpusIndexSignature, type CorpusIndex } from './corpus-index';
+import { corpusIndexBuild, corpusIndexSignature, corpusIndexUpdate, corpusSignatureSame, type CorpusIndex } from './corpus-index';
 import { corpusQueryRun, type CorpusQuery } from './corpus-query';
 import type { SlotsmithDb } from './schema';
 
@@ -18,51 +18,55 @@ export interface CorpusAnswer {
   intents: string[];
   /** Slot names met in the shown layer, sorted. */
   slots: string[];
-  /** Milliseconds spent (re)building the index for this answer (0 when it was reused) and filtering. */
+  /** How the index was brought up to date for this answer. */
+  index: 'reused' | 'updated' | 'built';
+  /** Milliseconds spent on the index and on filtering. */
   indexMillis: number;
   queryMillis: number;
 }
 
 export class CorpusService {
   private index: CorpusIndex | null = null;
-  private building: { projectId: number; signature: string; promise: Promise<CorpusIndex> } | null = null;
+  private pending: Promise<unknown> = Promise.resolve();
 
   constructor(private readonly db: SlotsmithDb) {}
 
-  private async indexFresh(projectId: number): Promise<{ index: CorpusIndex; built: boolean }> {
+  private async indexFresh(projectId: number, onProgress?: (done: number, total: number) => void): Promise<{ index: CorpusIndex; how: CorpusAnswer['index'] }> {
     const signature = await corpusIndexSignature(this.db, projectId);
-    if (this.index?.projectId === projectId && this.index.signature === signature) return { index: this.index, built: false };
-    if (this.building?.projectId !== projectId || this.building.signature !== signature) {
-      const promise = corpusIndexBuild(this.db, projectId);
-      this.building = { projectId, signature, promise };
-      // Drop the old index first: two 100k-utterance indexes need not live at once.
-      this.index = null;
+    const current = this.index;
+    if (current?.projectId === projectId) {
+      if (corpusSignatureSame(current.signature, signature)) return { index: current, how: 'reused' };
+      if (await corpusIndexUpdate(this.db, current, signature)) return { index: current, how: 'updated' };
     }
-    const building = this.building;
-    const index = await building.promise;
-    if (this.building === building) {
-      this.building = null;
-      this.index = index;
-    }
-    return { index, built: true };
+    // Drop the old index first: two 100k-utterance indexes need not live at once.
+    this.index = null;
+    const index = await corpusIndexBuild(this.db, projectId, onProgress);
+    this.index = index;
+    return { index, how: 'built' };
   }
 
-  async query(projectId: number, query: CorpusQuery): Promise<CorpusAnswer> {
-    const started = performance.now();
-    const { index, built } = await this.indexFresh(projectId);
-    const indexed = performance.now();
-    const ids = corpusQueryRun(index, query);
-    const column = query.layer === null ? undefined : index.layers.get(query.layer);
-    const sorted = (names: Iterable<string>) => [...names].sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
-    return {
-      ids,
-      total: index.ids.length,
-      annotators: index.annotators,
-      intents: sorted(index.intents),
-      slots: sorted(column?.slots.keys() ?? []),
-      indexMillis: built ? indexed - started : 0,
-      queryMillis: performance.now() - indexed,
-    };
+  /** Queries run one at a time, so a burst of filter changes shares one index build. */
+  query(projectId: number, query: CorpusQuery, onProgress?: (done: number, total: number) => void): Promise<CorpusAnswer> {
+    const run = this.pending.then(async () => {
+      const started = performance.now();
+      const { index, how } = await this.indexFresh(projectId, onProgress);
+      const indexed = performance.now();
+      const ids = corpusQueryRun(index, query);
+      const column = query.layer === null ? undefined : index.layers.get(query.layer);
+      const sorted = (names: Iterable<string>) => [...names].sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
+      return {
+        ids,
+        total: index.ids.length,
+        annotators: index.annotators,
+        intents: sorted(index.intents),
+        slots: sorted(column?.slots.keys() ?? []),
+        index: how,
+        indexMillis: indexed - started,
+        queryMillis: performance.now() - indexed,
+      };
+    });
+    this.pending = run.catch(() => undefined);
+    return run;
   }
 
   /** Forget the index (e.g. the project was deleted). */

@@ -7,8 +7,9 @@ import type { CorpusQuery } from '../db/corpus-query';
 const service = new CorpusService(dbOpen());
 
 const api = {
-  async query(projectId: number, query: CorpusQuery): Promise<CorpusAnswer> {
-    const answer = await service.query(projectId, query);
+  async query(projectId: number, query: CorpusQuery, onProgress?: (done: number, total: number) => void): Promise<CorpusAnswer> {
+    // Progress calls go back over the message port; not awaited, so reading never waits on the page.
+    const answer = await service.query(projectId, query, onProgress === undefined ? undefined : (done, total) => void onProgress(done, total));
     // The id list moves to the page without a copy.
     return Comlink.transfer(answer, [answer.ids.buffer]);
   },

@@ -147,15 +147,69 @@ describe('corpus index and query', () => {
     expect(first.annotators).toEqual(['ana', 'ben']);
     expect(first.slots).toEqual(['area', 'budget', 'day', 'service']);
     expect(first.intents).toEqual(['ask_price', 'book_visit', 'cancel']);
+    expect(first.index).toBe('built');
     const again = await service.query(projectId, query({ status: 'done' }));
-    expect(again.indexMillis).toBe(0);
+    expect(again.index).toBe('reused');
     expect(again.ids.length).toBe(4);
     const hr3 = (await db.utterances.where('[projectId+externalId]').equals([projectId, 'hr-3']).first())?.id as number;
     await layerSave(db, [hr3, 'ana'], { status: 'flagged', tags: ['O', 'B-day', 'O'] }, { expectedRevision: 1, who: 'ana' });
     const after = await service.query(projectId, query({ status: 'flagged' }));
+    expect(after.index).toBe('updated');
     expect([...after.ids]).toEqual([hr3]);
     const violations = await service.query(projectId, query({ violations: true }));
     expect(await externalIds(db, violations.ids)).toEqual(['hr-4']);
+    // A first layer by a new annotator is an edit too (one history row, one new layer).
+    await layerSave(db, [hr3, 'cy'], { intent: 'cancel', status: 'done' }, { expectedRevision: 0, who: 'cy' });
+    const withCy = await service.query(projectId, query({ annotator: 'cy' }));
+    expect(withCy.index).toBe('updated');
+    expect(withCy.annotators).toEqual(['ana', 'ben', 'cy']);
+    expect([...withCy.ids]).toEqual([hr3]);
+    // An import is not an edit: the index is built again.
+    await fileImport(db, projectId, 'ana', [utteranceMake('fence panel blown down', undefined, { id: 'hr-7', intent: 'book_visit' })]);
+    const imported = await service.query(projectId, query({}));
+    expect(imported.index).toBe('built');
+    expect(imported.total).toBe(7);
+  });
+
+  it('an index updated edit by edit answers like one built afresh (property)', async () => {
+    const db = dbTest();
+    const projectId = await projectSample(db);
+    const service = new CorpusService(db);
+    await service.query(projectId, query());
+    const ids = [...(await corpusIndexBuild(db, projectId)).ids];
+    const revisions = new Map<string, number>();
+    for (const layer of await db.layers.toArray()) revisions.set(`${layer.utteranceId}|${layer.annotator}`, layer.revision);
+    const edit = fc.record({
+      at: fc.nat({ max: ids.length - 1 }),
+      who: fc.constantFrom('ana', 'ben', 'gold'),
+      status: fc.constantFrom(...STATUSES),
+      intent: fc.constantFrom(...INTENTS),
+      slot: fc.constantFrom('O', ...SLOTS.map((s) => `B-${s}`), 'I-day'),
+    });
+    await fc.assert(
+      fc.asyncProperty(fc.array(edit, { minLength: 1, maxLength: 6 }), async (edits) => {
+        for (const e of edits) {
+          const id = ids[e.at] as number;
+          const row = await db.utterances.get(id);
+          const tags = new Array<string>((row?.tokens.length ?? 0) / 2).fill('O');
+          tags[tags.length - 1] = e.slot;
+          const key = `${id}|${e.who}`;
+          const saved = await layerSave(db, [id, e.who], { tags, intent: e.intent, status: e.status }, { expectedRevision: revisions.get(key) ?? 0, who: e.who });
+          revisions.set(key, saved.revision);
+        }
+        const answer = await service.query(projectId, query());
+        expect(answer.index).toBe('updated');
+        const fresh = await corpusIndexBuild(db, projectId);
+        const probes: CorpusFilter[] = [{}, { status: 'done' }, { status: 'unlabelled' }, { violations: true }, { disagreement: true }, { slot: 'day' }, { intent: 'made_up' }, { annotator: 'gold' }];
+        for (const filter of probes) {
+          for (const key of CORPUS_SORT_KEYS) {
+            const q = query(filter, key, true);
+            expect([...(await service.query(projectId, q)).ids]).toEqual([...corpusQueryRun(fresh, q)]);
+          }
+        }
+      }),
+      { seed: 42, numRuns: 15 },
+    );
   });
 });
 
@@ -196,6 +250,13 @@ function rowPasses(row: CorpusRow, filter: CorpusFilter, byAnnotator: boolean): 
   if (filter.violations === true && row.violations === 0) return false;
   if (filter.disagreement === true && row.disagreement !== true) return false;
   return true;
+}
+
+// Texts: lower case without accents by code unit (textSortKey's contract); intents: by the collator.
+function textOrder(key: CorpusSortKey, a: string, b: string): number {
+  if (key === 'intent') return new Intl.Collator(undefined, { sensitivity: 'base', numeric: true }).compare(a, b);
+  const plain = (t: string) => t.normalize('NFD').replace(/\p{M}+/gu, '');
+  return plain(a) < plain(b) ? -1 : plain(a) > plain(b) ? 1 : 0;
 }
 
 const STATUS_ORDER = Object.fromEntries(STATUSES.map((s, i) => [s, i]));
@@ -245,7 +306,7 @@ describe('corpus query against a brute-force scan (property)', () => {
             const ka = rowKey(a, key);
             const kb = rowKey(b, key);
             if (key === 'id') return sign * (ka < kb ? -1 : ka > kb ? 1 : 0);
-            const c = typeof ka === 'number' && typeof kb === 'number' ? ka - kb : new Intl.Collator(undefined, { sensitivity: 'base', numeric: true }).compare(String(ka), String(kb));
+            const c = typeof ka === 'number' && typeof kb === 'number' ? ka - kb : textOrder(key, String(ka), String(kb));
             return sign * c || a.seq - b.seq;
           })
           .map((r) => r.id);

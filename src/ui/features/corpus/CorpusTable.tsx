@@ -1,6 +1,5 @@
 import { createColumnHelper, rowSortingFeature, tableFeatures, useTable, type ReactTable, type Row, type SortingState, type Updater } from '@tanstack/react-table';
 import { useVirtualizer } from '@tanstack/react-virtual';
-import { useLiveQuery } from 'dexie-react-hooks';
 import { memo, useEffect, useMemo, useRef, useState, type KeyboardEvent } from 'react';
 import type { ProjectSchema } from '../../../core/backup/model';
 import { CORPUS_SORT_DEFAULT, CORPUS_SORT_KEYS, type CorpusSort, type CorpusSortKey } from '../../../db/corpus-query';
@@ -14,7 +13,15 @@ export const CORPUS_ROW_HEIGHT = 40;
 /** Rows read from the database at a time; windows are whole pages so small scrolls reuse a read. */
 const PAGE = 50;
 /** Rows kept in memory beyond the visible window, so scrolling back does not flash placeholders. */
-const CACHE_MAX = 600;
+const CACHE_MAX = 1000;
+
+interface RowCache {
+  key: string;
+  rows: Map<number, CorpusRow>;
+  /** Rows of the same view before the data changed, shown until the fresh ones arrive. */
+  stale: Map<number, CorpusRow>;
+  reading: Set<number>;
+}
 
 /** One place in the table: its position and the row when read. */
 interface Slot {
@@ -36,6 +43,8 @@ export interface CorpusTableProps {
   onOpen: (utteranceId: number) => void;
   describedBy: string;
   busy: boolean;
+  /** Changes whenever the project's data does (see corpusIndexSignature), so visible rows are read again. */
+  signature: string;
 }
 
 const placeholder = <span className="corpus-wait">…</span>;
@@ -134,7 +143,7 @@ const RowView = memo(function RowView({ row, start, tabbable, onOpen, onFocusInd
 });
 
 /** The utterance table: every matching row reachable by scrolling, only the visible ones rendered and read. */
-export function CorpusTable({ projectId, ids, layer, blind, schema, sort, onSort, onOpen, describedBy, busy }: CorpusTableProps) {
+export function CorpusTable({ projectId, ids, layer, blind, schema, sort, onSort, onOpen, describedBy, busy, signature }: CorpusTableProps) {
   const scrollRef = useRef<HTMLDivElement>(null);
   // The virtualiser's object changes meaning on every scroll, so nothing derived from it may be memoised; this component does not.
   // eslint-disable-next-line react-hooks/incompatible-library
@@ -145,33 +154,67 @@ export function CorpusTable({ projectId, ids, layer, blind, schema, sort, onSort
   const pageFrom = Math.floor(first / PAGE) * PAGE;
   const pageTo = Math.min(ids.length, (Math.floor(Math.max(last, 0) / PAGE) + 1) * PAGE);
 
-  // Rows already read, by utterance id; emptied when what a row shows changes.
-  const cache = useRef(new Map<number, CorpusRow>());
-  const cacheKey = `${projectId}|${layer ?? ''}|${blind}`;
-  const cacheFor = useRef(cacheKey);
-  if (cacheFor.current !== cacheKey) {
-    cache.current = new Map();
-    cacheFor.current = cacheKey;
+  // Rows already read, by utterance id, for one way of showing them (layer, blind) and one state of
+  // the data; after an edit the old rows stay on screen until their fresh copies arrive.
+  const cacheKey = `${projectId}|${layer ?? ''}|${blind}|${signature}`;
+  const cache = useRef<RowCache>({ key: cacheKey, rows: new Map(), stale: new Map(), reading: new Set() });
+  if (cache.current.key !== cacheKey) {
+    const old = cache.current;
+    const sameView = old.key.slice(0, old.key.lastIndexOf('|')) === cacheKey.slice(0, cacheKey.lastIndexOf('|'));
+    cache.current = { key: cacheKey, rows: new Map(), stale: sameView ? new Map([...old.stale, ...old.rows]) : new Map(), reading: new Set() };
   }
-  const read = useLiveQuery(() => corpusRowsRead(appDb(), ids.subarray(pageFrom, pageTo), { projectId, layer, blind }), [ids, pageFrom, pageTo, projectId, layer, blind]);
-  const data = useMemo(() => {
-    if (read !== undefined) {
-      if (cache.current.size + read.length > CACHE_MAX) cache.current = new Map();
-      for (const r of read) cache.current.set(r.id, r);
+  const [version, setVersion] = useState(0);
+  useEffect(() => {
+    const c = cache.current;
+    // A page of margin on both sides: rows are read before they scroll into view.
+    const from = Math.max(0, pageFrom - PAGE);
+    const to = Math.min(ids.length, pageTo + PAGE);
+    const missing: number[] = [];
+    for (let i = from; i < to; i++) {
+      const id = ids[i] as number;
+      if (!c.rows.has(id) && !c.reading.has(id)) missing.push(id);
     }
+    if (missing.length === 0) return;
+    for (const id of missing) c.reading.add(id);
+    corpusRowsRead(appDb(), missing, { projectId, layer, blind })
+      .then((read) => {
+        for (const r of read) {
+          c.rows.set(r.id, r);
+          c.stale.delete(r.id);
+        }
+        // Oldest first out: what is on screen was read last.
+        for (const id of c.rows.keys()) {
+          if (c.rows.size <= CACHE_MAX) break;
+          c.rows.delete(id);
+        }
+        if (cache.current === c) setVersion((v) => v + 1);
+      })
+      .catch(() => undefined)
+      .finally(() => {
+        for (const id of missing) c.reading.delete(id);
+      });
+    // Not on `version`: an id the database no longer has would be asked for again and again.
+  }, [ids, pageFrom, pageTo, cacheKey, projectId, layer, blind]);
+  const data = useMemo(() => {
+    const { rows, stale } = cache.current;
     const slots: Slot[] = [];
-    for (let i = pageFrom; i < pageTo; i++) slots.push({ index: i, row: cache.current.get(ids[i] as number) });
+    for (let i = pageFrom; i < pageTo; i++) {
+      const id = ids[i] as number;
+      slots.push({ index: i, row: rows.get(id) ?? stale.get(id) });
+    }
     return slots;
-  }, [read, ids, pageFrom, pageTo]);
+    // `version` and `cacheKey` say when the cache holds something new.
+  }, [ids, pageFrom, pageTo, version, cacheKey]); // eslint-disable-line react-hooks/exhaustive-deps
 
   const columns = useMemo(() => columnsMake(schema, blind), [schema, blind]);
   const sorting = useMemo<SortingState>(() => [{ id: sort.key, desc: sort.desc }], [sort.key, sort.desc]);
+  const state = useMemo(() => ({ sorting }), [sorting]);
   const table = useTable({
     features,
     columns,
     data,
     getRowId: (slot) => String(slot.index),
-    state: { sorting },
+    state,
     manualSorting: true,
     enableMultiSort: false,
     enableSortingRemoval: false,

@@ -1,3 +1,4 @@
+import * as Comlink from 'comlink';
 import { useLiveQuery } from 'dexie-react-hooks';
 import { useCallback, useEffect, useMemo, useState } from 'react';
 import { projectGet, utteranceCount } from '../../../db';
@@ -39,7 +40,9 @@ export function CorpusView({ projectId }: ProjectViewProps) {
   const project = useLiveQuery(() => projectGet(appDb(), projectId), [projectId]);
   const annotators = useLiveQuery(() => corpusAnnotators(appDb(), projectId), [projectId]);
   const total = useLiveQuery(() => utteranceCount(appDb(), projectId), [projectId]);
-  const signature = useLiveQuery(() => corpusIndexSignature(appDb(), projectId), [projectId]);
+  // As text, so an unchanged project does not count as a change.
+  const signature = useLiveQuery(async () => JSON.stringify(await corpusIndexSignature(appDb(), projectId)), [projectId]);
+  const annotatorsKey = annotators?.join('\n');
   const layer = blind ? profile.id : (state.layer ?? layerDefault(profile?.id ?? null, annotators ?? []));
   const filter: CorpusFilter = useMemo(() => {
     if (!blind || state.filter.disagreement === undefined) return state.filter;
@@ -50,14 +53,19 @@ export function CorpusView({ projectId }: ProjectViewProps) {
   const key = JSON.stringify([projectId, layer, filter, state.sort, blind]);
   const [answer, setAnswer] = useState<Answer | null>(null);
   const [error, setError] = useState<string | null>(null);
+  const [progress, setProgress] = useState<{ done: number; total: number } | null>(null);
 
   useEffect(() => {
-    if (signature === undefined || annotators === undefined) return undefined;
+    if (signature === undefined || annotatorsKey === undefined) return undefined;
     let live = true;
     const request: CorpusQuery = { layer, filter, sort: state.sort, blind };
     const run = async (): Promise<Answer> => {
       if (needsIndex) {
-        const a = await corpusWorker().query(projectId, request);
+        const a = await corpusWorker().query(
+          projectId,
+          request,
+          Comlink.proxy((done: number, total: number) => live && setProgress({ done, total })),
+        );
         return { key, ids: a.ids, slots: a.slots, intents: a.intents };
       }
       // Every utterance in seq order: the index keys alone, no worker, so a big project shows at once.
@@ -69,13 +77,14 @@ export function CorpusView({ projectId }: ProjectViewProps) {
         if (!live) return;
         setAnswer(a);
         setError(null);
+        setProgress(null);
       })
       .catch((e: unknown) => live && setError(e instanceof Error ? e.message : String(e)));
     return () => {
       live = false;
     };
     // `key` stands for layer, filter, sort and blind.
-  }, [key, signature, annotators, needsIndex, projectId]); // eslint-disable-line react-hooks/exhaustive-deps
+  }, [key, signature, annotatorsKey, needsIndex, projectId]); // eslint-disable-line react-hooks/exhaustive-deps
 
   // With the first rows on screen, build the filter index in the worker, so the first filter is quick.
   const shown = answer !== null;
@@ -131,6 +140,11 @@ export function CorpusView({ projectId }: ProjectViewProps) {
           {answer === null ? 'Reading the utterances…' : `Showing ${fmt(answer.ids.length)} of ${fmt(total ?? answer.ids.length)} utterances`}
           {busy && answer !== null ? ' (updating…)' : ''}
         </p>
+        {busy && progress !== null && progress.done < progress.total && (
+          <p className="corpus-note">
+            Preparing the filters: {fmt(progress.done)} of {fmt(progress.total)} utterances read.
+          </p>
+        )}
         {filters > 0 && (
           <button type="button" onClick={clear}>
             Clear filters
@@ -157,6 +171,7 @@ export function CorpusView({ projectId }: ProjectViewProps) {
           onOpen={onOpen}
           describedBy="corpus-help"
           busy={busy}
+          signature={signature ?? ''}
         />
       )}
     </section>
