@@ -84,7 +84,12 @@ export async function linesDecode(text: string, format: string): Promise<{ ok: t
   if (problem !== null) return { ok: false, errors: [{ line: 1, message: problem }] };
   const headerCheck = await lineVerify(first);
   if (!headerCheck.ok) return { ok: false, errors: [{ line: 1, message: checkMessage('the header', headerCheck.reason) }] };
-  const header = JSON.parse(headerCheck.json) as Record<string, unknown>;
+  let header: Record<string, unknown>;
+  try {
+    header = JSON.parse(headerCheck.json) as Record<string, unknown>;
+  } catch {
+    return { ok: false, errors: [{ line: 1, message: 'the header is not valid JSON without its check: it was not written by Slotsmith' }] };
+  }
 
   const errors: ExchangeProblem[] = [];
   const records: LinesDecoded['records'] = [];

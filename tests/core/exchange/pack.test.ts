@@ -1,3 +1,4 @@
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { linesEncode } from '../../../src/core/exchange/lines';
 import { layersRead } from '../../../src/core/exchange/layers';
@@ -90,5 +91,33 @@ describe('pack files', () => {
     const errors = await refusal(text);
     expect(errors.map((e) => e.message)).toEqual([expect.stringMatching(/"uid" must be 32 hex digits/), expect.stringMatching(/"model" cannot own a layer/)]);
     expect(errors.every((e) => e.line === 1)).toBe(true);
+  });
+});
+
+describe('readers never throw', () => {
+  it('answer every damaged file with line-numbered problems (property)', async () => {
+    const packed = await packText();
+    const lines = packed.split('\n');
+    await fc.assert(
+      fc.asyncProperty(
+        fc.integer({ min: 0, max: lines.length - 1 }),
+        fc.integer({ min: 0, max: 400 }),
+        fc.integer({ min: 0, max: 20 }),
+        fc.string({ maxLength: 4 }),
+        async (lineIndex, at, cut, insert) => {
+          const copy = [...lines];
+          const line = copy[lineIndex] as string;
+          const from = Math.min(at, line.length);
+          copy[lineIndex] = line.slice(0, from) + insert + line.slice(from + cut);
+          const text = copy.join('\n');
+          const pack = await packRead(text);
+          const layers = await layersRead(text);
+          expect(layers.ok).toBe(false);
+          if (text === packed) expect(pack.ok).toBe(true);
+          else if (!pack.ok) expect(pack.errors.every((e) => Number.isSafeInteger(e.line) && e.line >= 1 && e.message !== '')).toBe(true);
+        },
+      ),
+      { seed: 42, numRuns: 300 },
+    );
   });
 });
