@@ -1,17 +1,43 @@
 /** The agreement and overview computations off the page's thread, over the worker's own database connection. */
 import * as Comlink from 'comlink';
 import { dbOpen, type SlotsmithDb } from '../db/schema';
+import type { AgreementBootstrapApi } from './agreement-bootstrap.worker';
+import { bootstrapParallel, type BootstrapHelper } from './agreement-parallel';
 import type { LayerScanProgress } from './agreement-read';
-import { agreementRun, type AgreementOutcome, type AgreementProgress, type AgreementRequest } from './agreement-run';
+import { agreementRun, type AgreementOutcome, type AgreementProgress, type AgreementRequest, type AgreementResult } from './agreement-run';
 import { overviewRun, type OverviewRequest, type OverviewResult } from './agreement-overview';
+import { workerCrashed } from './worker-job';
 
 let db: SlotsmithDb | undefined;
 
+/** One helper per further core, up to three: the page's own thread stays free, as it waits on us. */
+function helpersStart(): BootstrapHelper[] {
+  const cores = typeof navigator === 'undefined' ? 1 : (navigator.hardwareConcurrency ?? 1);
+  const count = Math.max(0, Math.min(3, cores - 1));
+  return Array.from({ length: count }, () => {
+    const worker = new Worker(new URL('./agreement-bootstrap.worker.ts', import.meta.url), { type: 'module' });
+    const api = Comlink.wrap<AgreementBootstrapApi>(worker);
+    // A helper that fails to load never answers: its error event fails the run instead of hanging it.
+    const crashed = workerCrashed(worker, 'bootstrap helper');
+    crashed.catch(() => undefined);
+    return {
+      range: (rows, layout, seed, from, to) => Promise.race([api.range(rows, layout, seed, from, to), crashed]),
+      end: () => {
+        api[Comlink.releaseProxy]();
+        worker.terminate();
+      },
+    };
+  });
+}
+
 const api = {
-  /** `onProgress` arrives as a Comlink proxy; its calls are not awaited, so progress never slows the run. */
-  agreement(request: AgreementRequest, onProgress: (p: AgreementProgress) => void): Promise<AgreementOutcome> {
+  /** Callbacks arrive as Comlink proxies; their calls are not awaited, so the page never slows the run. */
+  agreement(request: AgreementRequest, onProgress: (p: AgreementProgress) => void, onPoint?: (early: AgreementResult) => void): Promise<AgreementOutcome> {
     db ??= dbOpen();
-    return agreementRun(db, request, (p) => void onProgress(p));
+    return agreementRun(db, request, (p) => void onProgress(p), {
+      ...(onPoint !== undefined && { onPoint: (early: AgreementResult) => void onPoint(early) }),
+      bootstrap: bootstrapParallel(helpersStart),
+    });
   },
   overview(request: OverviewRequest, onProgress: (p: LayerScanProgress) => void): Promise<OverviewResult> {
     db ??= dbOpen();

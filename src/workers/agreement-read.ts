@@ -75,8 +75,18 @@ export async function layersScan(
   visit: (row: LayerRow) => void,
   onProgress: (p: LayerScanProgress) => void = () => {},
   pageSize = LAYER_PAGE_UTTERANCES,
+  /** Adds the time (ms) spent on the index keys, on reading pages and on visiting rows. */
+  steps?: Record<string, number>,
 ): Promise<{ utterances: number; layers: number }> {
+  let at = performance.now();
+  const lap = (name: string) => {
+    if (steps === undefined) return;
+    const t = performance.now();
+    steps[name] = (steps[name] ?? 0) + t - at;
+    at = t;
+  };
   const ids = await layerUtteranceIds(db, choice);
+  lap('index keys');
   const { minKey, maxKey } = Dexie;
   let layers = 0;
   onProgress({ done: 0, total: ids.length });
@@ -85,11 +95,13 @@ export async function layersScan(
     const first = ids[from] as number;
     const last = ids[to - 1] as number;
     const rows = await db.layers.where('[utteranceId+annotator]').between([first, minKey], [last, maxKey], true, true).toArray();
+    lap('page reads');
     for (const row of rows) {
       if (!rowChosen(row, choice)) continue;
       layers++;
       visit(row);
     }
+    lap('row visits');
     onProgress({ done: to, total: ids.length });
   }
   return { utterances: ids.length, layers };

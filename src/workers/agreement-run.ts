@@ -11,6 +11,7 @@ import {
   resampleValuesJoin,
   type AgreementReport,
   type AlignError,
+  type BootstrapJob,
   type Disagreement,
   type ResampleValues,
 } from '../core/agreement';
@@ -59,7 +60,10 @@ export interface AgreementResult {
   counted: LayerCounted[];
   statuses: LayerStatus[];
   disagreements: DisagreementRow[];
-  timings: { readMs: number; computeMs: number; totalMs: number };
+  /** Reading the layers; every figure but the intervals (`pointMs`, from the start); all of it; and each step (ms). */
+  timings: { readMs: number; pointMs: number; computeMs: number; totalMs: number; steps: Record<string, number> };
+  /** True on the early result handed to `onPoint`: the intervals are still being resampled. */
+  intervalsPending: boolean;
 }
 
 export interface AgreementFailure {
@@ -99,10 +103,41 @@ async function disagreementRows(db: SlotsmithDb, items: readonly Disagreement[])
 
 const now = () => performance.now();
 
-export async function agreementRun(db: SlotsmithDb, request: AgreementRequest, onProgress: (p: AgreementProgress) => void = () => {}): Promise<AgreementOutcome> {
+/** Resamples [0, job.resamples) of the core's bootstrap, joined in order; may spread them over threads. */
+export type BootstrapRunner = (job: BootstrapJob, onProgress: (done: number) => void) => Promise<ResampleValues>;
+
+/** On this thread, in steps, so progress can be reported between them. */
+export const bootstrapHere: BootstrapRunner = (job, onProgress) => {
+  const parts: ResampleValues[] = [];
+  for (let from = 0; from < job.resamples; from += BOOTSTRAP_STEP) {
+    onProgress(from);
+    parts.push(bootstrapRange(job.rows, job.layout, job.seed, from, Math.min(job.resamples, from + BOOTSTRAP_STEP)));
+  }
+  return Promise.resolve(resampleValuesJoin(parts));
+};
+
+export interface AgreementRunOptions {
+  /** The figures without intervals, as soon as they are known (the intervals take longest). */
+  onPoint?: (early: AgreementResult) => void;
+  bootstrap?: BootstrapRunner;
+}
+
+export async function agreementRun(
+  db: SlotsmithDb,
+  request: AgreementRequest,
+  onProgress: (p: AgreementProgress) => void = () => {},
+  options: AgreementRunOptions = {},
+): Promise<AgreementOutcome> {
   const problem = requestCheck(request);
   if (problem !== null) return { ok: false, message: problem };
   const started = now();
+  const steps: Record<string, number> = {};
+  let stepAt = started;
+  const step = (name: string) => {
+    const t = now();
+    steps[name] = t - stepAt;
+    stepAt = t;
+  };
   const { projectId, annotators, statuses } = request;
   const sizes = await Promise.all(
     annotators.map(async (a) => {
@@ -113,39 +148,44 @@ export async function agreementRun(db: SlotsmithDb, request: AgreementRequest, o
   );
   const empty = annotators.filter((_, i) => sizes[i] === 0);
   if (empty.length > 0) return { ok: false, message: `No layers of ${empty.join(', ')} with status ${statuses.join(' or ')}: nothing to compare.` };
+  step('count');
   const gathering = new LayerGathering(annotators, sizes);
-  await layersScan(db, { projectId, annotators, statuses }, (row) => gathering.rowAdd(row), (p) => onProgress({ phase: 'reading', ...p }));
+  await layersScan(db, { projectId, annotators, statuses }, (row) => gathering.rowAdd(row), (p) => onProgress({ phase: 'reading', ...p }), undefined, steps);
   const layers = gathering.done();
+  step('gather');
   const readAt = now();
   onProgress({ phase: 'computing', done: 0, total: 1 });
   const aligned = gatheredAlign(layers);
   if (!aligned.ok) return { ok: false, message: `The layers do not line up (${aligned.errorCount} problems).`, errors: aligned.errors };
   const { corpus } = aligned;
+  step('align');
   const a = annotators.indexOf(request.pair[0]);
   const b = annotators.indexOf(request.pair[1]);
-  const resamples = request.bootstrap ?? 1000;
-  const seed = request.seed ?? 1;
-  const pending = agreementPrepare(corpus, { layers: [a, b], bootstrap: resamples, seed, disagreementLimit: request.disagreementLimit ?? 100 });
-  const { job } = pending;
-  let report: AgreementReport = pending.report;
-  if (job !== null) {
-    const parts: ResampleValues[] = [];
-    for (let from = 0; from < job.resamples; from += BOOTSTRAP_STEP) {
-      onProgress({ phase: 'intervals', done: from, total: job.resamples });
-      parts.push(bootstrapRange(job.rows, job.layout, job.seed, from, Math.min(job.resamples, from + BOOTSTRAP_STEP)));
-    }
-    report = agreementIntervalsAdd(pending, resampleValuesJoin(parts));
-  }
+  const pending = agreementPrepare(corpus, { layers: [a, b], bootstrap: request.bootstrap ?? 1000, seed: request.seed ?? 1, disagreementLimit: request.disagreementLimit ?? 100 });
+  step('figures');
   const overTime = agreementOverTime(corpus, a, b, updatedByPosition(corpus.ids, layers));
-  const disagreements = await disagreementRows(db, report.disagreements.items);
-  const finished = now();
-  return {
-    ok: true,
-    report,
-    overTime,
-    counted: layers.map((l) => ({ annotator: l.annotator, layers: l.data.count, statuses: l.statuses })),
-    statuses: [...statuses],
-    disagreements,
-    timings: { readMs: readAt - started, computeMs: finished - readAt, totalMs: finished - started },
+  step('over time');
+  const disagreements = await disagreementRows(db, pending.report.disagreements.items);
+  step('texts');
+  const pointAt = now();
+  const { job } = pending;
+  const result = (report: AgreementReport, intervalsPending: boolean): AgreementResult => {
+    const at = now();
+    return {
+      ok: true,
+      report,
+      overTime,
+      counted: layers.map((l) => ({ annotator: l.annotator, layers: l.data.count, statuses: l.statuses })),
+      statuses: [...statuses],
+      disagreements,
+      timings: { readMs: readAt - started, pointMs: pointAt - started, computeMs: at - readAt, totalMs: at - started, steps: { ...steps } },
+      intervalsPending,
+    };
   };
+  if (job === null) return result(pending.report, false);
+  options.onPoint?.(result(structuredClone(pending.report), true));
+  const bootstrap = options.bootstrap ?? bootstrapHere;
+  const values = await bootstrap(job, (done) => onProgress({ phase: 'intervals', done, total: job.resamples }));
+  step('bootstrap');
+  return result(agreementIntervalsAdd(pending, values), false);
 }

@@ -49,7 +49,15 @@ describe('agreementRun on the sample corpus', () => {
       { annotator: 'ann-a', utterances: A },
       { annotator: 'ann-b', utterances: B },
     ]);
-    const got = ok(await agreementRun(db, request(projectId)));
+    const early: AgreementResult[] = [];
+    const got = ok(await agreementRun(db, request(projectId), undefined, { onPoint: (e) => early.push(e) }));
+    // The early result is the final one but for the intervals, still to come.
+    expect(early).toHaveLength(1);
+    expect(early[0]?.intervalsPending).toBe(true);
+    expect(got.intervalsPending).toBe(false);
+    expect({ ...early[0]?.report, ci: 'later' }).toEqual({ ...got.report, ci: 'later' });
+    expect(early[0]?.report.ci).toBeNull();
+    expect(early[0]?.disagreements).toEqual(got.disagreements);
     const want = fromFiles([
       { name: 'ann-a', utterances: A },
       { name: 'ann-b', utterances: B },

@@ -1,4 +1,5 @@
 import { useLiveQuery } from 'dexie-react-hooks';
+import { memo } from 'react';
 import { projectGet } from '../../../db/project-repo';
 import { useNav } from '../../../state/nav';
 import type { AgreementProgress, AgreementResult } from '../../../workers/agreement-run';
@@ -24,19 +25,24 @@ function progressText(p: AgreementProgress | null): string {
   return `Intervals: ${countText(p.done)} of ${countText(p.total)} resamples`;
 }
 
-function Dashboard({ result, projectId }: { result: AgreementResult; projectId: number }) {
+/** Memoised: progress messages re-render the screen, never the dashboard under them. */
+const Dashboard = memo(function Dashboard({ result, projectId }: { result: AgreementResult; projectId: number }) {
   const { go } = useNav();
   const { report } = result;
   const names = report.pairNames;
   return (
     <>
-      <p data-testid="agreement-compared">
+      <p data-testid="agreement-compared" data-pending={String(result.intervalsPending)} data-worker-ms={result.timings.totalMs.toFixed(1)} data-read-ms={result.timings.readMs.toFixed(1)} data-compute-ms={result.timings.computeMs.toFixed(1)}
+        data-steps={Object.entries(result.timings.steps)
+          .map(([name, ms]) => `${name} ${ms.toFixed(0)} ms`)
+          .join(', ')}
+      >
         Compared {countText(report.utterances)} utterances ({countText(report.tokens)} tokens) that both {names[0]} and {names[1]} hold. Counted layers with status{' '}
         {listText(result.statuses)}: {result.counted.map((c) => `${c.annotator} ${countText(c.layers)}`).join(', ')}. Computed in {(result.timings.totalMs / 1000).toFixed(2)} s.
       </p>
       <section aria-labelledby="agreement-figures-title">
         <h3 id="agreement-figures-title">Figures</h3>
-        <FiguresTable report={report} />
+        <FiguresTable report={report} intervalsPending={result.intervalsPending} />
       </section>
       <MultiFigures report={report} />
       <section aria-labelledby="agreement-slots-title">
@@ -65,7 +71,7 @@ function Dashboard({ result, projectId }: { result: AgreementResult; projectId: 
       </section>
     </>
   );
-}
+});
 
 function ChoiceForm({ owners, choice, onChange, onAgain, busy }: { owners: string[]; choice: AgreementChoice; onChange: (c: AgreementChoice) => void; onAgain: () => void; busy: boolean }) {
   return (
@@ -112,7 +118,7 @@ export function AgreementView({ projectId }: ProjectViewProps) {
   const planned = choice === null || counts === undefined ? null : choiceRequest(projectId, choice, counts);
   const request = planned !== null && 'request' in planned ? planned.request : null;
   const countsKey = JSON.stringify(counts ?? null);
-  const { state, cancel, again } = useAgreementRun(request, countsKey);
+  const { state, early, cancel, again } = useAgreementRun(request, countsKey);
   const stale = state.kind === 'done' && state.stamp !== countsKey;
   return (
     <section aria-labelledby="agreement-title" className="agreement">
@@ -152,6 +158,7 @@ export function AgreementView({ projectId }: ProjectViewProps) {
         </div>
       )}
       {stale && <p role="status">Layers were added or changed their status since these figures were computed; use “Compute again” to bring them up to date.</p>}
+      {state.kind === 'running' && early !== null && <Dashboard result={early} projectId={projectId} />}
       {state.kind === 'done' && state.outcome.ok && <Dashboard result={state.outcome} projectId={projectId} />}
     </section>
   );

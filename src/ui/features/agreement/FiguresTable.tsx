@@ -34,7 +34,7 @@ export function figureRows(report: AgreementReport): Row[] {
 }
 
 /** Every two-layer figure with its interval and, for kappas, the reading aid. */
-export function FiguresTable({ report }: { report: AgreementReport }) {
+export function FiguresTable({ report, intervalsPending = false }: { report: AgreementReport; intervalsPending?: boolean }) {
   const rows = figureRows(report);
   const ci = report.ci;
   return (
@@ -47,7 +47,7 @@ export function FiguresTable({ report }: { report: AgreementReport }) {
           <tr>
             <th scope="col">Figure</th>
             <th scope="col">Value</th>
-            <th scope="col">{ci === null ? 'Interval' : `${Math.round(ci.confidence * 100)}% interval`}</th>
+            <th scope="col">{ci === null ? (intervalsPending ? '95% interval' : 'Interval') : `${Math.round(ci.confidence * 100)}% interval`}</th>
             <th scope="col">Reading (Landis &amp; Koch)</th>
             <th scope="col">Compared</th>
           </tr>
@@ -63,7 +63,7 @@ export function FiguresTable({ report }: { report: AgreementReport }) {
                 {figureText(r.value)}
                 {r.value === null && r.reason !== undefined && <span className="agreement-what">{r.reason}</span>}
               </td>
-              <td>{intervalText(r.interval)}</td>
+              <td>{intervalsPending ? 'computing…' : intervalText(r.interval)}</td>
               <td>{r.band ?? (r.key.startsWith('span') ? 'not a kappa' : '—')}</td>
               <td>{r.compared}</td>
             </tr>
@@ -72,7 +72,9 @@ export function FiguresTable({ report }: { report: AgreementReport }) {
       </table>
       <p className="agreement-note">
         {ci === null
-          ? 'No intervals were computed.'
+          ? intervalsPending
+            ? 'Intervals: bootstrap resamples are being drawn (progress above).'
+            : 'No intervals were computed.'
           : `Intervals: ${ci.method} bootstrap over ${countText(ci.resamples)} resamples of whole utterances (seed ${ci.seed}), as the command line’s agree computes them.`}{' '}
         <strong>Caution:</strong> {LANDIS_KOCH_CAUTION}
       </p>

@@ -1,6 +1,6 @@
 /** The agreement worker run behind the screen: started for each new request, cancellable, never blocking the page. */
-import { useCallback, useEffect, useRef, useState } from 'react';
-import type { AgreementOutcome, AgreementProgress, AgreementRequest } from '../../../workers/agreement-run';
+import { startTransition, useCallback, useEffect, useRef, useState } from 'react';
+import type { AgreementOutcome, AgreementProgress, AgreementRequest, AgreementResult } from '../../../workers/agreement-run';
 import { JobCancelledError, type WorkerJob } from '../../../workers/worker-job';
 import { agreementStart } from './agreement-client';
 
@@ -16,8 +16,10 @@ export type AgreementRunState =
  * `stamp` (what the data looked like at the start) is handed back with the result, so the screen can
  * tell when the figures no longer match the layers.
  */
-export function useAgreementRun(request: AgreementRequest | null, stamp: string): { state: AgreementRunState; cancel: () => void; again: () => void } {
+export function useAgreementRun(request: AgreementRequest | null, stamp: string): { state: AgreementRunState; early: AgreementResult | null; cancel: () => void; again: () => void } {
   const [state, setState] = useState<AgreementRunState>({ kind: 'idle' });
+  /** The figures without intervals while the intervals are resampled. */
+  const [early, setEarly] = useState<AgreementResult | null>(null);
   const [round, setRound] = useState(0);
   const job = useRef<WorkerJob<AgreementOutcome> | null>(null);
   const key = request === null ? '' : JSON.stringify(request);
@@ -28,16 +30,23 @@ export function useAgreementRun(request: AgreementRequest | null, stamp: string)
 
   useEffect(() => {
     if (key === '') return;
-    const started = agreementStart(JSON.parse(key) as AgreementRequest, (progress) => setState({ kind: 'running', progress }));
+    const started = agreementStart(
+      JSON.parse(key) as AgreementRequest,
+      (progress) => setState({ kind: 'running', progress }),
+      // A transition: React renders the dashboard in slices that yield to the page, not in one long task.
+      (figures) => startTransition(() => setEarly(figures)),
+    );
     job.current = started;
     const startStamp = stampNow.current;
     // The first paint of the run comes from the worker's first progress message; until then, say it started.
     queueMicrotask(() => {
-      if (job.current === started) setState({ kind: 'running', progress: null });
+      if (job.current !== started) return;
+      setState({ kind: 'running', progress: null });
+      setEarly(null);
     });
     started.result.then(
       (outcome) => {
-        if (job.current === started) setState({ kind: 'done', outcome, stamp: startStamp });
+        if (job.current === started) startTransition(() => setState({ kind: 'done', outcome, stamp: startStamp }));
       },
       (error: unknown) => {
         if (job.current !== started) return;
@@ -52,5 +61,5 @@ export function useAgreementRun(request: AgreementRequest | null, stamp: string)
 
   const cancel = useCallback(() => job.current?.cancel(), []);
   const again = useCallback(() => setRound((r) => r + 1), []);
-  return { state, cancel, again };
+  return { state, early, cancel, again };
 }
