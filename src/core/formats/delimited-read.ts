@@ -20,6 +20,11 @@ export interface DelimitedReadOptions extends UtteranceSinkOption {
   tokeniser?: TokeniserSpec;
   /** Recorded on the document; every tag is O. Default: iob2. */
   scheme?: Scheme;
+  /**
+   * Default true: undo our writer's spreadsheet escape (`'=1+1` reads as `=1+1`; see
+   * delimited-escape.ts). Only a quote before `=`, `+`, `-`, `@`, tab or CR is taken off.
+   */
+  formulaUnescape?: boolean;
 }
 
 const LF = 10;
@@ -61,7 +66,7 @@ class DelimitedParser implements TextParser {
   constructor(options: DelimitedReadOptions) {
     this.delimiter = options.delimiter;
     const header = options.header ?? typeof options.column === 'string';
-    const columns = { column: options.column, header, ...optionalColumns(options) };
+    const columns = { column: options.column, header, formulaUnescape: options.formulaUnescape ?? true, ...optionalColumns(options) };
     const tokenise = tokeniserCreate(options.tokeniser ?? { kind: 'words' });
     this.rows = new RowReader(columns, tokenise, this.badLines, utteranceSink(options, this.utterances), this.errors);
     this.scheme = options.scheme ?? 'iob2';

@@ -1,5 +1,6 @@
 import type { Tokeniser } from '../tokenise';
 import type { ReadError, Utterance } from '../types';
+import { cellFormulaUnescape } from './delimited-escape';
 import { UNDECODABLE_MESSAGE } from './reader';
 
 export type ColumnRef = string | number;
@@ -9,6 +10,8 @@ export interface RowColumns {
   idColumn?: ColumnRef;
   intentColumn?: ColumnRef;
   header: boolean;
+  /** Undo the writer's formula escape in every cell (header names included). */
+  formulaUnescape: boolean;
 }
 
 /** One parsed record with the file lines it covers (more than one when a quoted field holds a line break). */
@@ -52,7 +55,8 @@ export class RowReader {
   ) {}
 
   rowAdd(row: Row): void {
-    const { fields, firstLine, lastLine, problems } = row;
+    const { firstLine, lastLine, problems } = row;
+    const fields = this.columns.formulaUnescape ? row.fields.map(cellFormulaUnescape) : row.fields;
     if (fields.length === 1 && fields[0] === '' && problems.length === 0) return;
     if (this.rowHasBadLine(firstLine, lastLine)) {
       // Without its header row the columns cannot be named, so nothing after it can be read.

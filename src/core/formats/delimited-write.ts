@@ -1,17 +1,24 @@
 import Papa from 'papaparse';
 import type { Utterance } from '../types';
+import { cellFormulaEscape } from './delimited-escape';
 import type { Delimiter } from './delimited-read';
 import { FormatWriteError } from './errors';
 
 export interface DelimitedWriteOptions {
   /** Default: comma. */
   delimiter?: Delimiter;
+  /**
+   * Default true: cells a spreadsheet would run as a formula get a leading `'` (see
+   * delimited-escape.ts); our reader removes it again unless told not to (`formulaUnescape: false`).
+   */
+  formulaEscape?: boolean;
 }
 
 /**
  * CSV/TSV with a header: `id` (when any utterance has one), `text`, `intent` (when any has one), then
  * meta keys sorted by code unit. Empty cells read back as absent, so empty ids, intents and meta
- * values are not kept; tokens and tags are not written (read back with a tokeniser).
+ * values are not kept; tokens and tags are not written (read back with a tokeniser). Formula-like
+ * cells are escaped for spreadsheets by default (OWASP "CSV Injection"; see delimited-escape.ts).
  */
 export function delimitedWrite(utterances: readonly Utterance[], options: DelimitedWriteOptions = {}): string {
   const delimiter = options.delimiter ?? ',';
@@ -31,6 +38,7 @@ export function delimitedWrite(utterances: readonly Utterance[], options: Delimi
     for (const key of metaKeys) row.push(utterance.meta[key] ?? '');
     rows.push(row);
   });
+  const cells = options.formulaEscape === false ? rows : rows.map((row) => row.map(cellFormulaEscape));
   // RFC 4180 section 2 lets the last record end without a line break; a final one keeps files line-based.
-  return `${Papa.unparse(rows, { delimiter, newline: '\n', quoteChar: '"', escapeChar: '"', header: false })}\n`;
+  return `${Papa.unparse(cells, { delimiter, newline: '\n', quoteChar: '"', escapeChar: '"', header: false })}\n`;
 }

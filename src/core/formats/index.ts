@@ -1,6 +1,7 @@
 export * from './columns-comment';
 export * from './columns-read';
 export * from './columns-write';
+export * from './delimited-escape';
 export * from './delimited-read';
 export * from './delimited-write';
 export { type ColumnRef } from './delimited-rows';
