@@ -55,9 +55,10 @@ test('repair one, then all with a preview; a second scan finds none; undo brings
   const before = await findingRowsText(page);
   expect(before).toHaveLength(TRANSITIONS + SCHEMA);
   // The rule in plain words, and the context with the token at fault.
-  await expect(page.getByText('An I- tag follows O; in IOB2 every span starts with B-.').first()).toBeVisible();
-  await expect(page.locator('.rules-context').first().locator('.rules-token.marked')).toHaveCount(2);
-  await expect(page.locator('.rules-context').first()).toContainText('▶');
+  const strayRow = page.getByRole('region', { name: 'Rule findings' }).locator('tbody tr').filter({ hasText: 'An I- tag follows O; in IOB2 every span starts with B-.' }).first();
+  await expect(strayRow.locator('.rules-token.marked')).toHaveCount(2);
+  await expect(strayRow.locator('.rules-token.marked').nth(1)).toContainText(/^▶ .* I-\S+$/);
+  await expect(strayRow.locator('.rules-token.marked').first()).toContainText(/ O$/);
 
   // One layer: its own preview, applied; the scan then has that layer's transition findings fewer.
   await page.getByRole('combobox', { name: 'Show' }).selectOption('transition');

@@ -9,19 +9,15 @@ interface Props {
 }
 
 /** The tokens around a finding: the offending token and the one before it are marked in words too. */
-function Context({ tokens }: { tokens: ContextToken[] }) {
+function Context({ tokens, marked }: { tokens: ContextToken[]; marked: readonly number[] }) {
   return (
     <span className="rules-context">
-      {tokens.map((t, i) => {
-        const next = tokens[i + 1];
-        const marked = t.focus || next?.focus === true;
-        return (
-          <span key={t.index} className={marked ? 'rules-token marked' : 'rules-token'}>
-            {t.focus ? '▶' : ''}
-            {t.word} <code>{t.tag}</code>
-          </span>
-        );
-      })}
+      {tokens.map((t) => (
+        <span key={t.index} className={marked.includes(t.index) ? 'rules-token marked' : 'rules-token'}>
+          {t.focus ? '▶ ' : ''}
+          {t.word} <code>{t.tag}</code>
+        </span>
+      ))}
     </span>
   );
 }
@@ -35,7 +31,7 @@ export function FindingsTable({ rows, selected, onToggle, onPreviewOne }: Props)
             <th scope="col">Select</th>
             <th scope="col">Utterance</th>
             <th scope="col">Layer</th>
-            <th scope="col">Where (tokens with their tags; ▶ marks the token at fault)</th>
+            <th scope="col">Where (tokens with their tags; ▶ marks the token at fault, a frame what it concerns)</th>
             <th scope="col">Rule</th>
             <th scope="col">Repair</th>
           </tr>
@@ -50,7 +46,7 @@ export function FindingsTable({ rows, selected, onToggle, onPreviewOne }: Props)
                 </td>
                 <td>{row.layer.seq}</td>
                 <td>{row.layer.annotator}</td>
-                <td>{row.finding.index === null ? <span>intent {row.layer.intent ?? 'none'}</span> : <Context tokens={row.context} />}</td>
+                <td>{row.finding.index === null ? <span>intent {row.layer.intent ?? 'none'}</span> : <Context tokens={row.context} marked={row.marked} />}</td>
                 <td>
                   <div>{row.finding.message}</div>
                   <div className="muted">{row.rule}</div>

@@ -225,7 +225,7 @@ export function RulesView({ projectId }: ProjectViewProps) {
           <h3 id="rules-preview-title">Before and after</h3>
           <p>
             {preview.layers.length} layer{preview.layers.length === 1 ? '' : 's'} would change ({preview.tagsChanged} tag{preview.tagsChanged === 1 ? '' : 's'})
-            {preview.unchanged > 0 ? `; ${preview.unchanged} chosen layer${preview.unchanged === 1 ? '' : 's'} would stay as they are (their findings need another kind of fix)` : ''}.
+            {preview.unchanged > 0 ? `; ${preview.unchanged} chosen layer${preview.unchanged === 1 ? '' : 's'} would stay as they are with these choices (a schema finding needs the option to drop spans; an unknown intent needs relabelling)` : ''}.
           </p>
           <div className="row-form">
             <button type="button" onClick={() => void apply()} disabled={busy || who === null || preview.layers.length === 0}>

@@ -1,6 +1,7 @@
 /** The rule review's plain logic: finding rows, filters, layer keys and the repair preview. */
 import { layerTagsRepair, tagsChangedAt, tokensAround, type ContextToken } from '../../../core/adjudication';
 import { ruleDescribe, type RepairStrategy } from '../../../core/rules';
+import { spansFromTags } from '../../../core/schemes';
 import type { RepairTarget, RuleFinding, RuleLayer, RulesScan } from '../../../db/rules-repo';
 
 export interface FindingRow {
@@ -12,6 +13,8 @@ export interface FindingRow {
   /** The rule in plain words. */
   rule: string;
   context: ContextToken[];
+  /** Token indices to mark: the two sides of an illegal transition, or the whole span at fault. */
+  marked: number[];
   /** Whether a repair can change it (intent findings cannot; schema ones only with the schema option). */
   repairable: 'always' | 'schema-option' | 'never';
 }
@@ -28,17 +31,40 @@ export function layerKeyOf(layer: { utteranceId: number; annotator: string }): s
   return `${layer.utteranceId}\u0000${layer.annotator}`;
 }
 
+function markedOf(layer: RuleLayer, finding: RuleFinding): number[] {
+  const at = finding.index;
+  if (at === null) return [];
+  if (finding.kind === 'schema') {
+    const span = spansFromTags(layer.tags).find((s) => s.start === at);
+    return span === undefined ? [at] : Array.from({ length: span.end - span.start }, (_, i) => span.start + i);
+  }
+  // The transition into the utterance end points at the last token alone; others at both of its tokens.
+  return at === 0 || finding.rule === 'bioes/unclosed-at-end' ? [at] : [at - 1, at];
+}
+
+/** The context of a finding: a few tokens either side of everything marked. */
+function contextOf(layer: RuleLayer, marked: readonly number[], index: number): ContextToken[] {
+  const first = marked[0] ?? index;
+  const last = marked[marked.length - 1] ?? index;
+  const middle = Math.floor((first + last) / 2);
+  return tokensAround(layer.words, layer.tags, index, 3 + Math.max(0, last - first)).filter((t) => Math.abs(t.index - middle) <= 3 + Math.ceil((last - first) / 2));
+}
+
 export function findingRows(scan: RulesScan): FindingRow[] {
   return scan.layers.flatMap((layer) =>
-    layer.findings.map((finding, i): FindingRow => ({
-      id: `${layerKeyOf(layer)}\u0000${i}`,
-      layerKey: layerKeyOf(layer),
-      layer,
-      finding,
-      rule: ruleDescribe(finding.rule),
-      context: finding.index === null ? [] : tokensAround(layer.words, layer.tags, finding.index),
-      repairable: finding.kind === 'transition' ? 'always' : finding.index === null ? 'never' : 'schema-option',
-    })),
+    layer.findings.map((finding, i): FindingRow => {
+      const marked = markedOf(layer, finding);
+      return {
+        id: `${layerKeyOf(layer)}\u0000${i}`,
+        layerKey: layerKeyOf(layer),
+        layer,
+        finding,
+        rule: ruleDescribe(finding.rule),
+        context: finding.index === null ? [] : contextOf(layer, marked, finding.index),
+        marked,
+        repairable: finding.kind === 'transition' ? 'always' : finding.index === null ? 'never' : 'schema-option',
+      };
+    }),
   );
 }
 

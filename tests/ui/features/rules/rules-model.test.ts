@@ -51,6 +51,8 @@ describe('rule review model', () => {
       ['please', 'O', false],
     ]);
     expect(rows[1]?.context).toEqual([]);
+    // A transition marks both of its tokens; a schema finding marks its whole span; the intent nothing.
+    expect(rows.map((r) => r.marked)).toEqual([[1, 2], [], [0]]);
     expect(findingsFilter(rows, { kind: 'schema', owner: '' })).toHaveLength(2);
     expect(findingsFilter(rows, { kind: 'all', owner: 'ann-a' })).toHaveLength(1);
     expect(findingsSignature(SCAN)).toEqual(['2|ann-a|iob2/inside-after-outside|2', '4|gold|schema/unknown-intent|-', '4|gold|schema/unknown-slot|0']);
