@@ -1,5 +1,6 @@
 import AxeBuilder from '@axe-core/playwright';
 import { expect, test, type Browser, type Locator, type Page } from '@playwright/test';
+import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -121,7 +122,7 @@ async function annotatorWork(browser: Browser, baseURL: string, packPath: string
   return { path, foreign };
 }
 
-test('team work across machines: packs out, labels in the label screen, layer files merged, tampering refused', async ({ browser, baseURL }) => {
+test('team work across machines: packs out, labels in the label screen, layer files merged, tampering refused, agreement as the CLI’s', async ({ browser, baseURL }) => {
   test.setTimeout(300_000);
   const base = baseURL ?? '';
   const lead = await (await browser.newContext({ baseURL: base })).newPage();
@@ -180,7 +181,7 @@ test('team work across machines: packs out, labels in the label screen, layer fi
   ]);
   const b = await annotatorWork(browser, base, packBPath, 'ben', [
     { seq: d1, intent: 'book_visit', status: 'Done' },
-    { seq: d2, intent: 'book_visit', status: 'Done' },
+    { seq: d2, intent: 'reschedule', status: 'Done' },
     { seq: onlyB, intent: 'cancel', status: 'Done' },
   ]);
 
@@ -243,6 +244,35 @@ test('team work across machines: packs out, labels in the label screen, layer fi
   expect(await countOf(lead, 'history')).toBe(historyBefore + 6);
 
   await axeClean(lead);
+
+  // Agreement: the screen's figures for ana against ben equal the command line's agree on both
+  // layers written out as IOB2 through the export screen (done layers: the two shared ones).
+  const exported: string[] = [];
+  for (const annotator of ['ana', 'ben']) {
+    await lead.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Write out data' }).click();
+    await lead.getByRole('radio', { name: 'One annotator', exact: true }).check();
+    await lead.getByRole('combobox', { name: /^Annotator/ }).selectOption(annotator);
+    await lead.getByRole('button', { name: 'Write', exact: true }).click();
+    const links = lead.getByRole('list', { name: 'Files to save' }).getByRole('link');
+    await expect(links).toHaveCount(1, { timeout: SLOW });
+    exported.push(await fileDownloaded(lead, links.first(), `${annotator}.iob2`));
+  }
+  const run = spawnSync(process.execPath, ['bin/slotsmith.mjs', 'agree', '--json', ...exported], { maxBuffer: 16 * 1024 * 1024 });
+  expect(run.status).toBe(0);
+  const cli = JSON.parse(run.stdout.toString('utf8')) as { utterances: number; kappa: { tag: number | null; slot: number | null }; intent: { kappa: number | null }; spans: { exactF1: number | null; overlapF1: number | null } };
+  expect(cli.utterances).toBe(2);
+  await lead.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Agreement' }).click();
+  await lead.getByLabel('Layer A').selectOption('ana');
+  await lead.getByLabel('Layer B').selectOption('ben');
+  // As the agreement screen rounds: three decimals.
+  const shown = (x: number | null) => (x === null ? /—|n\/a|undefined/ : x.toFixed(3));
+  await expect(lead.getByTestId('figure-kappa-slot')).toContainText(shown(cli.kappa.slot), { timeout: SLOW });
+  await expect(lead.getByTestId('figure-kappa-tag')).toContainText(shown(cli.kappa.tag));
+  await expect(lead.getByTestId('figure-kappa-intent')).toContainText(shown(cli.intent.kappa));
+  await expect(lead.getByTestId('figure-span-exact')).toContainText(shown(cli.spans.exactF1));
+  await expect(lead.getByTestId('figure-span-overlap')).toContainText(shown(cli.spans.overlapF1));
+  await expect(lead.getByTestId('agreement-compared')).toContainText('Compared 2 utterances');
+
   expect(foreign).toEqual([]);
   expect(a.foreign).toEqual([]);
   expect(b.foreign).toEqual([]);
