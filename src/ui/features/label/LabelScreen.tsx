@@ -106,6 +106,13 @@ export function LabelScreen({ projectId, profile }: { projectId: number; profile
     if (utterance && first && last) setSaid(`Labelled “${utterance.text.slice(first.start, last.end)}” as ${slot}.`);
   }
 
+  // A stable callback for the memoised slot buttons, always calling this render's labelWith.
+  const labelWithLatest = useRef(labelWith);
+  useEffect(() => {
+    labelWithLatest.current = labelWith;
+  });
+  const pick = useCallback((slot: string) => labelWithLatest.current(slot), []);
+
   async function step(to: 'next' | 'previous' | 'nextUnlabelled') {
     if (!utterance) return;
     const next =
@@ -199,11 +206,12 @@ export function LabelScreen({ projectId, profile }: { projectId: number; profile
     if (active === null || active === document.body) strip.current?.focus();
   }, [ready, utteranceId]);
 
+  const others = useMemo(() => (layers ?? []).filter((l) => l.annotator !== layerName), [layers, layerName]);
+  const intents = useMemo(() => project?.schema.intents ?? [], [project]);
   const conflictUtterance = useConflictUtterance(view.conflict?.key[0] ?? null);
 
   if (project === null) return <p role="alert">This project does not exist (it may have been deleted in another tab).</p>;
   const title = `Label${project ? `: ${project.name}` : ''}`;
-  const others = (layers ?? []).filter((l) => l.annotator !== layerName);
 
   return (
     <section aria-labelledby="label-title" className="label-screen">
@@ -285,8 +293,8 @@ export function LabelScreen({ projectId, profile }: { projectId: number; profile
             label={`Tokens of the utterance. Selected: ${selectedText(utterance.text, tokens, selection)}`}
             idPrefix="label"
           />
-          <SlotLegend slots={slots} onPick={labelWith} disabled={view.conflict !== null} />
-          <LayerFields ref={intentRef} noteRef={noteRef} edit={shown} layerId={`${utterance.id}|${layerName}`} intents={project?.schema.intents ?? []} onEdit={edit} />
+          <SlotLegend slots={slots} onPick={pick} disabled={view.conflict !== null} />
+          <LayerFields ref={intentRef} noteRef={noteRef} edit={shown} layerId={`${utterance.id}|${layerName}`} intents={intents} onEdit={edit} />
           <OtherLayers layers={others} blind={blind} text={utterance.text} tokens={tokens} slots={slots} />
         </>
       ) : (

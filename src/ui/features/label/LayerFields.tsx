@@ -1,4 +1,4 @@
-import { forwardRef, useEffect, useRef, useState, type RefObject } from 'react';
+import { forwardRef, memo, useEffect, useRef, useState, type RefObject } from 'react';
 import type { IntentDef, LayerStatus } from '../../../core/backup/model';
 import type { EditOp, LayerEdit } from '../../../core/editing';
 
@@ -22,7 +22,8 @@ interface LayerFieldsProps {
 }
 
 /** Intent, status and note of the layer being labelled. */
-export const LayerFields = forwardRef<HTMLSelectElement, LayerFieldsProps>(function LayerFields({ edit, layerId, intents, onEdit, noteRef }, intentRef) {
+export const LayerFields = memo(
+  forwardRef<HTMLSelectElement, LayerFieldsProps>(function LayerFields({ edit, layerId, intents, onEdit, noteRef }, intentRef) {
   const [note, setNote] = useState(edit.note);
   const typing = useRef<number | null>(null);
   const shown = useRef({ layerId, note: edit.note });
@@ -86,4 +87,5 @@ export const LayerFields = forwardRef<HTMLSelectElement, LayerFieldsProps>(funct
       </label>
     </div>
   );
-});
+}),
+);

@@ -1,3 +1,4 @@
+import { memo } from 'react';
 import type { SlotDef } from '../../../core/backup/model';
 import { selectionCaret } from '../../../core/editing';
 import type { Token } from '../../../core/types';
@@ -16,7 +17,7 @@ interface OtherLayersProps {
 const noSelect = () => undefined;
 
 /** Other people's (and gold or model) layers of this utterance, read-only; hidden in blind mode. */
-export function OtherLayers({ layers, blind, text, tokens, slots }: OtherLayersProps) {
+export const OtherLayers = memo(function OtherLayers({ layers, blind, text, tokens, slots }: OtherLayersProps) {
   return (
     <section aria-labelledby="label-others-title" className="label-others">
       <h3 id="label-others-title">Other layers</h3>
@@ -37,4 +38,4 @@ export function OtherLayers({ layers, blind, text, tokens, slots }: OtherLayersP
       )}
     </section>
   );
-}
+});

@@ -1,3 +1,4 @@
+import { memo } from 'react';
 import type { SlotDef } from '../../../core/backup/model';
 import { colourTint, slotColour } from './label-text';
 
@@ -11,7 +12,7 @@ interface SlotLegendProps {
  * The project's slots as buttons (a click labels the selection), each with its shortcut and, on hover
  * or keyboard focus, its guideline: description and examples from the schema.
  */
-export function SlotLegend({ slots, onPick, disabled }: SlotLegendProps) {
+export const SlotLegend = memo(function SlotLegend({ slots, onPick, disabled }: SlotLegendProps) {
   if (slots.length === 0) return <p className="muted">This project has no slots yet: add them under “Slots and intents”.</p>;
   return (
     <ul className="label-legend" aria-label="Slots">
@@ -43,4 +44,4 @@ export function SlotLegend({ slots, onPick, disabled }: SlotLegendProps) {
       })}
     </ul>
   );
-}
+});

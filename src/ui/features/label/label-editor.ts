@@ -10,6 +10,7 @@ import {
   editChange,
   layerEditBlank,
   layerEditOf,
+  layerEditSame,
   redoDone,
   redoPeek,
   UNDO_EMPTY,
@@ -306,6 +307,9 @@ export class LabelEditor {
     if (key !== null && base !== undefined) {
       edit = c !== null && sameKey(key, c.key) ? c.mine : this.queue.filter((i) => sameKey(i.key, key)).reduce<LayerEdit>((e, i) => editApply(e, i.op), base);
     }
+    // Same content, same object: memoised parts of the screen then skip the repaint after each save.
+    const previous = this.view?.edit ?? null;
+    if (edit !== null && previous !== null && layerEditSame(edit, previous)) edit = previous;
     const conflict: LabelConflict | null = c === null ? null : { key: c.key, cause: c.cause, theirs: c.theirs, mine: c.mine, mineOnTheirs: c.mineOnTheirs };
     return {
       key,
