@@ -142,7 +142,10 @@ export function PacksSection({ projectId, projectName }: { projectId: number; pr
           <label htmlFor={`${id}-ov`}>Overlap (% of utterances given to two annotators)</label>
           <input id={`${id}-ov`} inputMode="decimal" size={5} value={overlap} onChange={(e) => setOverlap(e.target.value)} />
           <label htmlFor={`${id}-seed`}>Seed</label>
-          <input id={`${id}-seed`} inputMode="numeric" size={10} value={seed} onChange={(e) => setSeed(e.target.value)} />
+          <input id={`${id}-seed`} inputMode="numeric" size={10} value={seed} onChange={(e) => setSeed(e.target.value)} aria-describedby={`${id}-seed-note`} />
+          <span id={`${id}-seed-note`} className="muted">
+            The same seed gives the same sample and the same share-out again.
+          </span>
         </div>
         <div className="row-form">
           <label htmlFor={`${id}-sug`}>Pre-fill suggestions from</label>
