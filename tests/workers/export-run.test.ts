@@ -5,7 +5,9 @@ import type { Utterance } from '../../src/core/types';
 import { backupRestore } from '../../src/db/backup-repo';
 import { layerSave } from '../../src/db/layer-repo';
 import type { SlotsmithDb } from '../../src/db/schema';
-import { EXPORT_PAGE_SIZE, exportRun, type ExportOutcome, type ExportRequest } from '../../src/workers/export-run';
+import { batchAppend, batchBegin, batchFinish } from '../../src/db/batch-repo';
+import { projectCreate } from '../../src/db/project-repo';
+import { EXPORT_PAGE_SIZE, exportFinish, exportGather, exportGatherKey, exportRun, type ExportOutcome, type ExportRequest } from '../../src/workers/export-run';
 import { backupSeed } from '../../e2e/backup-seed';
 import { dbTest } from '../db/helpers';
 
@@ -117,4 +119,47 @@ describe('exportRun', () => {
     expect(asIs.all).toContain('Friday\tI-day');
     db.close();
   });
+
+  it("'as they are' from the refused run's snapshot writes what a fresh as-is run writes; the gather key ignores format, split and masking", async () => {
+    const utterances = corpus(40);
+    utterances[7] = { ...(utterances[7] as Utterance), tags: ['O', 'O', 'B-service', 'O', 'I-day', 'O', 'B-contact_phone'] };
+    const { db, projectId } = await seeded(utterances);
+    const gathered = await exportGather(db, request(projectId));
+    expect(exportFinish(gathered, request(projectId)).kind).toBe('refused');
+    for (const format of ['iob2', 'bioes', 'jsonl'] as const) {
+      const again = request(projectId, { format, asIs: true, mask: ['digits'] });
+      expect(await texts(exportFinish(gathered, again))).toEqual(await texts(await exportRun(db, again)));
+      expect(exportGatherKey(again)).toBe(exportGatherKey(request(projectId)));
+    }
+    expect(exportGatherKey(request(projectId, { statuses: ['done', 'draft'] }))).not.toBe(exportGatherKey(request(projectId)));
+    expect(exportGatherKey(request(projectId, { policy: { kind: 'gold' } }))).not.toBe(exportGatherKey(request(projectId)));
+    db.close();
+  });
+
+  it('reads the right layers when projects interleave their utterance ids, narrowly (key range) or widely (one get per key)', async () => {
+    const db = dbTest();
+    const all = corpus(EXPORT_PAGE_SIZE + 60);
+    const mine = (await projectCreate(db, { name: 'Mine' })).id;
+    const other = (await projectCreate(db, { name: 'Other' })).id;
+    const batchOf = async (projectId: number, annotator: string) => batchBegin(db, projectId, { fileName: `${annotator}.iob`, format: 'columns', annotator });
+    const mineBatch = await batchOf(mine, 'ann-a');
+    const otherBatch = await batchOf(other, 'ann-a');
+    // First page: runs of ten of mine with one other-project row between (spread 1.1: read by key range,
+    // the other row filtered out); then each of mine between nine of the other's (spread > 4: read per key).
+    const kept: Utterance[] = [];
+    for (let i = 0; i < all.length; ) {
+      const run = all.slice(i, i + (i < EXPORT_PAGE_SIZE ? 10 : 1));
+      await batchAppend(db, mineBatch, { utterances: run });
+      kept.push(...run);
+      i += run.length;
+      const u = run[0] as Utterance;
+      const noise = Array.from({ length: i <= EXPORT_PAGE_SIZE ? 1 : 9 }, () => ({ ...u, tags: u.tags.map(() => 'O'), intent: 'cancel' }));
+      await batchAppend(db, otherBatch, { utterances: noise });
+    }
+    await batchFinish(db, mineBatch, { utterances: all.length });
+    await batchFinish(db, otherBatch, { utterances: (await db.batches.get(otherBatch))?.counts.utterances ?? 0 });
+    const files = await texts(await exportRun(db, request(mine)));
+    expect(files).toEqual(oneShot(kept, { format: 'iob2' }));
+    db.close();
+  }, 60_000);
 });

@@ -5,7 +5,8 @@ import { annotatorList, projectCounts, projectGet } from '../../../db';
 import type { ExportOutcome, ExportProgress, ExportRequest } from '../../../workers/export-run';
 import { appDb } from '../../app/db';
 import type { ProjectViewProps } from '../../app/project-views';
-import { exportInWorker } from './export-client';
+import { JobCancelledError, type WorkerJob } from '../../../workers/worker-job';
+import { exportStart, type ExportWorkerKept } from './export-client';
 import { exportFormDefault, exportFormRequest, exportReportText, type ExportForm, type PolicyKind } from './export-form';
 import { ExportDownloads, type DownloadLink } from './ExportDownloads';
 import { exportFileName } from './file-names';
@@ -18,6 +19,7 @@ type Phase =
   | { kind: 'refused'; outcome: Extract<ExportOutcome, { kind: 'refused' }>; request: ExportRequest }
   | { kind: 'empty'; report: string }
   | { kind: 'written'; links: DownloadLink[]; report: string }
+  | { kind: 'cancelled' }
   | { kind: 'failed'; message: string };
 
 const FORMATS: { value: ExportFormat; label: string }[] = [
@@ -46,9 +48,23 @@ export function ExportView({ projectId }: ProjectViewProps) {
   const [problem, setProblem] = useState<string | null>(null);
   const [phase, setPhase] = useState<Phase>({ kind: 'idle' });
   const urls = useRef<string[]>([]);
+  const job = useRef<WorkerJob<ExportOutcome> | null>(null);
+  // The worker of the refusal on screen: "as they are" writes what it read, without reading again.
+  const kept = useRef<ExportWorkerKept | null>(null);
+  const keptEnd = () => {
+    kept.current?.end();
+    kept.current = null;
+  };
 
-  // Object URLs hold their Blobs alive: let them go with the screen.
-  useEffect(() => () => urls.current.forEach((u) => URL.revokeObjectURL(u)), []);
+  // Object URLs hold their Blobs alive: let them go with the screen, and a run still going ends with it.
+  useEffect(
+    () => () => {
+      urls.current.forEach((u) => URL.revokeObjectURL(u));
+      job.current?.cancel();
+      kept.current?.end();
+    },
+    [],
+  );
 
   if (project === undefined || counts === undefined || people === undefined) return <p>Loading…</p>;
 
@@ -57,7 +73,10 @@ export function ExportView({ projectId }: ProjectViewProps) {
   const set = (patch: Partial<ExportForm>) => {
     setEdits((e) => ({ ...e, ...patch }));
     // A refusal's "as they are" would write the old choices: it goes once the choices change.
-    if (phase.kind === 'refused') setPhase({ kind: 'idle' });
+    if (phase.kind === 'refused') {
+      setPhase({ kind: 'idle' });
+      keptEnd();
+    }
   };
   const running = phase.kind === 'running';
   const projectName = project?.name ?? 'project';
@@ -70,10 +89,27 @@ export function ExportView({ projectId }: ProjectViewProps) {
     urls.current.forEach((u) => URL.revokeObjectURL(u));
     urls.current = [];
     setPhase({ kind: 'running', progress: null });
+    const reuse = request.asIs ? (kept.current ?? undefined) : undefined;
+    if (reuse === undefined) keptEnd();
+    kept.current = null;
+    // Progress of this run only, and only while it runs: never over a later run or a finished screen.
+    const started = exportStart(
+      request,
+      (progress) => {
+        if (job.current === current) setPhase((p) => (p.kind === 'running' ? { kind: 'running', progress } : p));
+      },
+      reuse,
+    );
+    const current = started.job;
+    job.current = current;
     try {
-      const outcome = await exportInWorker(request, (progress) => setPhase({ kind: 'running', progress }));
+      const outcome = await current.result;
+      if (job.current !== current) return;
       const report = exportReportText(outcome.report);
-      if (outcome.kind === 'refused') setPhase({ kind: 'refused', outcome, request });
+      if (outcome.kind === 'refused') {
+        kept.current = started.worker;
+        setPhase({ kind: 'refused', outcome, request });
+      }
       else if (outcome.kind === 'empty') setPhase({ kind: 'empty', report });
       else {
         const now = new Date();
@@ -85,8 +121,15 @@ export function ExportView({ projectId }: ProjectViewProps) {
         setPhase({ kind: 'written', links, report });
       }
     } catch (error) {
-      setPhase({ kind: 'failed', message: (error as Error).message });
+      if (job.current !== current) return;
+      setPhase(error instanceof JobCancelledError ? { kind: 'cancelled' } : { kind: 'failed', message: (error as Error).message });
+    } finally {
+      if (job.current === current) job.current = null;
     }
+  }
+
+  function cancel() {
+    job.current?.cancel();
   }
 
   function submit(event: FormEvent) {
@@ -191,9 +234,16 @@ export function ExportView({ projectId }: ProjectViewProps) {
             {problem}
           </p>
         )}
-        <button type="submit" disabled={running}>
-          Write
-        </button>
+        <div className="export-actions">
+          <button type="submit" disabled={running}>
+            Write
+          </button>
+          {running && (
+            <button type="button" onClick={cancel}>
+              Cancel writing
+            </button>
+          )}
+        </div>
       </form>
       <div aria-live="polite">
         {phase.kind === 'running' && (
@@ -201,6 +251,7 @@ export function ExportView({ projectId }: ProjectViewProps) {
             <progress max={phase.progress?.total || 1} value={phase.progress?.done ?? 0} aria-label="Export progress" /> {progressText(phase.progress)}
           </p>
         )}
+        {phase.kind === 'cancelled' && <p role="status">Writing was cancelled; no file was made.</p>}
         {phase.kind === 'empty' && <p role="status">Nothing to write with these choices. {phase.report}</p>}
         {phase.kind === 'failed' && (
           <p role="alert" className="error">
