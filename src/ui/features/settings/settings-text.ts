@@ -26,14 +26,8 @@ export function storagePersistText(persisted: boolean | null): string {
   return 'This browser does not say whether it keeps this data when space runs low. Save backups regularly.';
 }
 
-/** A free project name for a restored copy: the original, else "… (restored)", "… (restored 2)"… */
-export function restoreNameFree(name: string, taken: ReadonlySet<string>): string {
-  if (!taken.has(name)) return name;
-  for (let n = 1; ; n++) {
-    const candidate = `${name} (restored${n === 1 ? '' : ` ${n}`})`;
-    if (!taken.has(candidate)) return candidate;
-  }
-}
+// The rule lives with the restore itself (it runs in the restore worker's transaction).
+export { restoreNameFree } from '../../../db/backup-repo';
 
 export function readErrorText(e: ReadError): string {
   return `Line ${e.line}: ${e.message}`;
