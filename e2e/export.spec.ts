@@ -54,7 +54,7 @@ function sameBytes(got: Buffer, want: Buffer) {
 }
 
 /** A holder project gives access to the settings screen, whose restore control makes the real one. */
-async function seedThroughRestore(page: Page, file = seedPath, name = PROJECT) {
+async function seedThroughRestore(page: Page, file = seedPath, name = PROJECT, wait = SLOW) {
   await page.goto('/');
   await expect(page.getByText('No projects yet.').or(page.getByRole('list', { name: 'Projects' }))).toBeVisible();
   if (!(await page.getByRole('list', { name: 'Projects' }).getByText(HOLDER).isVisible())) {
@@ -65,7 +65,7 @@ async function seedThroughRestore(page: Page, file = seedPath, name = PROJECT) {
   }
   await page.getByRole('button', { name: 'Project settings' }).click();
   await page.getByLabel('Restore from a backup file').setInputFiles(file);
-  await expect(page.getByRole('status').filter({ hasText: 'Restored as the project' })).toContainText(name, { timeout: SLOW });
+  await expect(page.getByRole('status').filter({ hasText: 'Restored as the project' })).toContainText(name, { timeout: wait });
   await page.getByRole('button', { name: `Open “${name}”` }).click();
   await expect(page.getByRole('heading', { name: `Project settings: ${name}` })).toBeVisible();
   await page.getByRole('button', { name: 'Write out data' }).click();
@@ -193,6 +193,34 @@ test('a backup from a newer Slotsmith, or a broken one, is refused with line num
   await expect(page.getByRole('status').filter({ hasText: 'Restored as' })).toContainText(`“${PROJECT} (restored)”`);
   await page.getByRole('button', { name: 'All projects' }).click();
   await expect(page.getByRole('list', { name: 'Projects' }).getByRole('listitem')).toHaveCount(3);
+});
+
+test('cancelling an export stops the worker, says so and offers no file; the next export still works', async ({ page, baseURL }) => {
+  test.setTimeout(300_000);
+  const foreign = watchOrigins(page, baseURL ?? '');
+  // Forty copies of the sample (distinct ids): reading takes long enough for Cancel to land while it runs.
+  const copies = Array.from({ length: 40 }, (_, k) => doc.utterances.map((u) => ({ ...u, id: `${u.id ?? 'u'}-copy${k}` }))).flat();
+  const bigPath = join(work, 'big.slotsmith-backup.jsonl');
+  writeFileSync(bigPath, backupSeed(copies, { projectName: 'Big sample', annotator: 'ann-a', time: Date.UTC(2025, 4, 6, 10), statusOf: (u) => (illegal(u.tags) ? 'flagged' : 'done') }));
+  // Restored in one transaction through the restore worker: on a loaded machine that takes a while.
+  await seedThroughRestore(page, bigPath, 'Big sample', 150_000);
+  await page.getByRole('button', { name: 'Write', exact: true }).click();
+  // Reading 48,000 utterances takes seconds: the click lands while the worker runs.
+  await expect(page.getByRole('progressbar', { name: 'Export progress' })).toBeVisible();
+  await page.getByRole('button', { name: 'Cancel writing' }).click();
+  await expect(page.getByRole('status').filter({ hasText: 'Writing was cancelled; no file was made.' })).toBeVisible();
+  await expect(page.getByRole('progressbar', { name: 'Export progress' })).toHaveCount(0);
+  await expect(page.getByRole('list', { name: 'Files to save' })).toHaveCount(0);
+  // The worker is gone: no late progress brings the bar back.
+  await page.waitForTimeout(1000);
+  await expect(page.getByRole('progressbar', { name: 'Export progress' })).toHaveCount(0);
+  expect(page.workers().filter((w) => w.url().includes('export.worker'))).toEqual([]);
+  const links = page.getByRole('list', { name: 'Files to save' }).getByRole('link');
+  await page.getByRole('button', { name: 'Write', exact: true }).click();
+  await expect(links).toHaveCount(1, { timeout: 120_000 });
+  const legal = copies.filter((u) => !illegal(u.tags)).length;
+  await expect(page.getByText(`${legal} of ${copies.length} utterances chosen.`)).toBeVisible();
+  expect(foreign).toEqual([]);
 });
 
 test('the export and settings screens have no accessibility violations (axe-core, WCAG 2.1 A/AA rules)', async ({ page }) => {

@@ -100,6 +100,28 @@ test('cancelling an import half-way leaves nothing behind', async ({ page, baseU
   expect(foreign).toEqual([]);
 });
 
+test("a second annotator's file of the same utterances: the summary says how many only got a layer", async ({ page, baseURL }) => {
+  const foreign = watchOrigins(page, baseURL ?? '');
+  const a = columnsRead(readFileSync(ANN_A)).utterances;
+  const b = columnsRead(readFileSync('sample-corpus/ann-b.iob2')).utterances;
+  const idsA = new Set(a.map((u) => u.id));
+  const shared = b.filter((u) => idsA.has(u.id)).length;
+  expect(shared).toBeGreaterThan(0);
+  await projectNew(page, 'Two annotators');
+  for (const [file, who, count] of [[ANN_A, 'ann-a', a.length], ['sample-corpus/ann-b.iob2', 'ann-b', b.length]] as const) {
+    await page.getByLabel('File to bring in').setInputFiles(file);
+    await page.getByLabel('Whose labels are these?').fill(who);
+    await page.getByRole('button', { name: 'Preview' }).click();
+    await page.getByRole('button', { name: 'Import' }).and(page.locator(':enabled')).click();
+    await expect(page.getByText(`Stored ${fmt(count)} utterances`)).toBeVisible();
+  }
+  await expect(page.getByTestId('import-attached')).toHaveText(
+    `${fmt(shared)} of them were already in the project (same id, text and tokens): they only got a layer by ann-b; ${fmt(b.length - shared)} are new.`,
+  );
+  await expect(page.getByText(`This project holds ${fmt(a.length + b.length - shared)} utterances`)).toBeVisible();
+  expect(foreign).toEqual([]);
+});
+
 test('the demo project is one click away, with both annotators’ layers', async ({ page, baseURL }) => {
   const foreign = watchOrigins(page, baseURL ?? '');
   const a = expected('sample-corpus/ann-a.iob2').utterances;

@@ -249,6 +249,13 @@ export function ImportView({ projectId }: { projectId: number }) {
         <p role="status" className="import-summary">
           Stored {summary.utterances.toLocaleString('en')} utterances ({summary.tokens.toLocaleString('en')} tokens)
           {summary.annotator === null ? ' without labels' : ` with ${summary.annotator}'s labels`}.
+          {summary.attached > 0 && (
+            <span data-testid="import-attached">
+              {' '}
+              {summary.attached.toLocaleString('en')} of them were already in the project (same id, text and tokens): {summary.attached === 1 ? 'it' : 'they'} only got a layer by{' '}
+              {summary.annotator}; {(summary.utterances - summary.attached).toLocaleString('en')} are new.
+            </span>
+          )}
           {summary.labelsAdded.slots.length + summary.labelsAdded.intents.length > 0 &&
             ` Added to the project's labels: ${[...summary.labelsAdded.slots, ...summary.labelsAdded.intents].join(', ')}.`}
         </p>
