@@ -97,9 +97,15 @@ async function demoMake(page: Page): Promise<number> {
   return projectId;
 }
 
-async function profileChoose(page: Page, id: string, role: 'annotator' | 'adjudicator' = 'annotator') {
-  await page.getByLabel('Your annotator id').fill(id);
-  await page.getByLabel('Role').selectOption(role);
+/** The profile feature's chooser: a new name (its id is derived from it), or someone who already labels here. */
+async function profileChoose(page: Page, id: string, known = false) {
+  if (known) {
+    await page.getByRole('button', { name: `Continue as ${id}` }).click();
+    return;
+  }
+  await page.getByLabel('Your name').fill(id);
+  await expect(page.getByLabel('Id written into your labels')).toHaveValue(id);
+  await page.getByRole('radio', { name: /^Annotator/ }).check();
   await page.getByRole('button', { name: 'Start labelling' }).click();
 }
 
@@ -249,7 +255,7 @@ test('blind labelling hides another annotator’s layer; turning it off shows it
   const projectId = await demoMake(page);
   const shared = await utteranceIdOf(page, 'hr-00010');
   await page.goto(`/#/p/${projectId}/label?u=${shared}`);
-  await profileChoose(page, 'ann-a');
+  await profileChoose(page, 'ann-a', true);
   await expect(tokens(page)).toBeVisible();
   // ann-a's own imported layer is the one being edited.
   await expect(token(page, '9th, day (starts)')).toBeVisible();
@@ -319,7 +325,7 @@ test('axe: the editor, the help overlay (focus kept inside, Escape closes) and t
   await slotKeysSet(page, projectId);
   const shared = await utteranceIdOf(page, 'hr-00010');
   await page.goto(`/#/p/${projectId}/label?u=${shared}`);
-  await profileChoose(page, 'ann-a');
+  await profileChoose(page, 'ann-a', true);
   await expect(tokens(page)).toBeVisible();
   await page.getByLabel('Blind labelling (hide other layers)').uncheck();
   const serious = async () => (await new AxeBuilder({ page }).withTags(AXE_TAGS).analyze()).violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');

@@ -5,9 +5,9 @@ import { ExportView } from '../features/export/ExportView';
 import { demoLoad } from '../features/import/demo-load';
 import { ImportView } from '../features/import/ImportView';
 import { LabelView } from '../features/label/LabelView';
-import { TemporaryProfileChooser } from '../features/label/TemporaryProfileChooser';
 import { OverviewView } from '../features/overview/OverviewView';
 import { ProfileBadge } from '../features/profile/ProfileBadge';
+import { ProfileChooser } from '../features/profile/ProfileChooser';
 import { ResolveView } from '../features/resolve/ResolveView';
 import { RulesView } from '../features/rules/RulesView';
 import { SchemaView } from '../features/schema/SchemaView';
@@ -57,5 +57,5 @@ export const projectViews: {
   restore: RestoreBackup,
   packOpen: PackOpen,
   profile: ProfileBadge,
-  profileChooser: TemporaryProfileChooser,
+  profileChooser: ProfileChooser,
 };
