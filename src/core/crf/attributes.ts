@@ -45,7 +45,9 @@ export function wordTemplates(word: string): string[] {
   const lower = word.toLowerCase();
   const shape = wordShape(word);
   const chars = [...lower];
-  const out = [`w=${word}`, `l=${lower}`, `sh=${shape}`, `ss=${wordShapeShort(shape)}`];
+  // Identity beside lower case only when case makes them differ: a second, always-equal copy adds work, not information.
+  const out = word === lower ? [`l=${lower}`] : [`w=${word}`, `l=${lower}`];
+  out.push(`sh=${shape}`, `ss=${wordShapeShort(shape)}`);
   for (let k = 1; k <= 3 && k <= chars.length; k++) {
     out.push(`p${k}=${chars.slice(0, k).join('')}`, `s${k}=${chars.slice(-k).join('')}`);
   }

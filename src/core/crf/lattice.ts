@@ -14,11 +14,13 @@ export class Lattice {
   shift = new Float64Array(0);
   /** Token marginals, T × L, after `run`. */
   marginals = new Float64Array(0);
-  private row = new Float64Array(0);
+  private readonly row: Float64Array;
+  private readonly pairs: Float64Array;
 
   constructor(labelCount: number) {
     this.labelCount = labelCount;
     this.row = new Float64Array(labelCount);
+    this.pairs = new Float64Array(labelCount * labelCount);
   }
 
   reserve(tokens: number): void {
@@ -87,7 +89,9 @@ export class Lattice {
       scale[t] = c;
       for (let j = 0; j < L; j++) alpha[base + j] = (alpha[base + j] as number) * c;
     }
-    // Backward, scaled by the same factors.
+    // Backward, scaled by the same factors; the pair expectations share its inner loop.
+    const pairs = pairOut === null ? null : this.pairs;
+    if (pairs !== null) pairs.fill(0);
     const last = (tokens - 1) * L;
     for (let i = 0; i < L; i++) beta[last + i] = scale[tokens - 1] as number;
     for (let t = tokens - 2; t >= 0; t--) {
@@ -98,11 +102,20 @@ export class Lattice {
       for (let i = 0; i < L; i++) {
         const tr = i * L;
         let s = 0;
-        for (let j = 0; j < L; j++) s += (expTrans[tr + j] as number) * (row[j] as number);
+        if (pairs === null) {
+          for (let j = 0; j < L; j++) s += (expTrans[tr + j] as number) * (row[j] as number);
+        } else {
+          const a = alpha[base + i] as number;
+          for (let j = 0; j < L; j++) {
+            const r = row[j] as number;
+            s += (expTrans[tr + j] as number) * r;
+            pairs[tr + j] = (pairs[tr + j] as number) + a * r;
+          }
+        }
         beta[base + i] = s * c;
       }
     }
-    // Marginals p_t(i) = α̂_t(i) β̂_t(i) / c_t, pairs p(i, j) = α̂_t(i) E(i, j) Ŝ_{t+1}(j) β̂_{t+1}(j).
+    // Marginals p_t(i) = α̂_t(i) β̂_t(i) / c_t; pairs p(i, j) = α̂_t(i) E(i, j) Ŝ_{t+1}(j) β̂_{t+1}(j), with E(i, j) taken out of the sum over t.
     let logZ = 0;
     for (let t = 0; t < tokens; t++) {
       const base = t * L;
@@ -110,19 +123,8 @@ export class Lattice {
       logZ += (shift[t] as number) - Math.log(c);
       for (let i = 0; i < L; i++) marginals[base + i] = ((alpha[base + i] as number) * (beta[base + i] as number)) / c;
     }
-    if (pairOut !== null) {
-      for (let t = 0; t + 1 < tokens; t++) {
-        const base = t * L;
-        const next = (t + 1) * L;
-        for (let j = 0; j < L; j++) row[j] = (expState[next + j] as number) * (beta[next + j] as number);
-        for (let i = 0; i < L; i++) {
-          const a = alpha[base + i] as number;
-          if (a === 0) continue;
-          const tr = i * L;
-          const out = pairOffset + tr;
-          for (let j = 0; j < L; j++) pairOut[out + j] = (pairOut[out + j] as number) + a * (expTrans[tr + j] as number) * (row[j] as number);
-        }
-      }
+    if (pairOut !== null && pairs !== null) {
+      for (let c = 0; c < L * L; c++) pairOut[pairOffset + c] = (pairOut[pairOffset + c] as number) + (pairs[c] as number) * (expTrans[c] as number);
     }
     return logZ;
   }

@@ -12,7 +12,7 @@ describe('word attributes', () => {
     expect(wordTemplates('Monday')).toEqual(['w=Monday', 'l=monday', 'sh=Xxxxxx', 'ss=Xx', 'p1=m', 's1=y', 'p2=mo', 's2=ay', 'p3=mon', 's3=day', 'title']);
     expect(wordTemplates('555')).toContain('digits');
     expect(wordTemplates('Q1')).toContain('hasdigit');
-    expect(wordTemplates('?')).toEqual(['w=?', 'l=?', 'sh=?', 'ss=?', 'p1=?', 's1=?', 'punct']);
+    expect(wordTemplates('?')).toEqual(['l=?', 'sh=?', 'ss=?', 'p1=?', 's1=?', 'punct']);
     expect(wordTemplates('ASAP')).toContain('upper');
   });
 
