@@ -1,7 +1,7 @@
 import AxeBuilder from '@axe-core/playwright';
 import { expect, test, type Page } from '@playwright/test';
 import { readFileSync } from 'node:fs';
-import { adjudicationDiff, draftStart, goldTags, spansTake } from '../src/core/adjudication';
+import { adjudicationDiff, draftStart, goldTags, spansPlace, spansTake } from '../src/core/adjudication';
 import { columnsRead } from '../src/core/formats';
 import type { Utterance } from '../src/core/types';
 import { watchOrigins } from './helpers';
@@ -146,10 +146,47 @@ test('resolve disagreements by keyboard; the exported gold layer is exactly what
   await expect(utteranceHeading(page)).toContainText(fourth);
   await expect(items(page).nth(n4 - 1)).toHaveAttribute('aria-current', 'true');
 
+  // A hand edit (token 1 labelled area), then B for the whole utterance; built with the core's steps.
+  await page.getByRole('button', { name: /^Token 1: / }).click();
+  await page.getByRole('combobox', { name: 'Slot', exact: true }).selectOption('area');
+  await page.getByRole('button', { name: 'Label the selected tokens' }).click();
+  await expect(page.getByText('Saved to gold: labelled tokens 1-1 as area.')).toBeVisible();
+  await page.keyboard.press('Shift+B');
+  await expect(page.getByText('Saved to gold: took ann-b for the whole utterance.')).toBeVisible();
+  await expect(progress).toContainText(`Resolved 4 of ${disagreeing.length}`);
+  const a4 = A.get(fourth) as Utterance;
+  const b4 = B.get(fourth) as Utterance;
+  const diff4 = adjudicationDiff(a4.tags, b4.tags);
+  const spans4 = diff4.regions.reduce((acc, r) => spansTake(acc, r, 'b'), spansPlace(draftStart(diff4), 0, 1, 'area'));
+  want.set(fourth, { tags: goldTags(spans4, a4.tags.length, 'iob2'), intent: (a4.intent ?? '') !== (b4.intent ?? '') ? b4.intent : a4.intent });
+
+  // The project's list of disagreements shows which are resolved, and opens one.
+  await page.getByText('All disagreements between ann-a and ann-b').click();
+  const index = page.getByRole('list', { name: 'Disagreements in the project' }).getByRole('listitem');
+  await expect(index.first()).toContainText('resolved');
+  await index.first().getByRole('button').click();
+  await expect(utteranceHeading(page)).toContainText(first);
+
   const axe = await new AxeBuilder({ page }).withTags(AXE_TAGS).analyze();
   expect(axe.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.help}`)).toEqual([]);
 
-  // The export screen, gold layer, done only: exactly the three resolved utterances as chosen.
+  // Every decision is a history row of the gold layer, written by the adjudicator, with a time.
+  const history = await page.evaluate(
+    () =>
+      new Promise<{ annotator: string; who: string; when: number }[]>((resolve, reject) => {
+        const open = indexedDB.open('slotsmith');
+        open.onerror = () => reject(open.error);
+        open.onsuccess = () => {
+          const get = open.result.transaction('history').objectStore('history').getAll();
+          get.onsuccess = () => resolve(get.result as { annotator: string; who: string; when: number }[]);
+        };
+      }),
+  );
+  const gold = history.filter((h) => h.annotator === 'gold');
+  expect(gold).toHaveLength(1 + n2 + n3 + 2);
+  expect(gold.every((h) => h.who === 'lead' && h.when > Date.UTC(2020, 0, 1))).toBe(true);
+
+  // The export screen, gold layer, done only: exactly the four resolved utterances as chosen.
   await page.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Write out data' }).click();
   await page.getByLabel('Gold (the agreed labels)').check();
   await page.getByRole('button', { name: 'Write', exact: true }).click();

@@ -7,6 +7,7 @@ import { useNav } from '../../../state/nav';
 import { useSession } from '../../../state/session';
 import { appDb } from '../../app/db';
 import type { ProjectViewProps } from '../../app/project-views';
+import { DisagreementIndex } from './DisagreementIndex';
 import { KeyList } from './KeyList';
 import { ResolveUtterance } from './ResolveUtterance';
 import './resolve.css';
@@ -104,6 +105,18 @@ export function ResolveView({ projectId }: ProjectViewProps) {
           </span>{' '}
           <span className="muted">({summary.shared} labelled by both)</span>
         </p>
+      )}
+      {ready && (
+        <DisagreementIndex
+          projectId={projectId}
+          a={a}
+          b={b}
+          openId={uId}
+          onOpen={(id) => {
+            setEnterAt('first');
+            queryReplace({ ...query, a, b, u: String(id) });
+          }}
+        />
       )}
       {ready && uId === null && searching === 'none' && <p>{a} and {b} agree on every utterance they both labelled: nothing to resolve.</p>}
       {ready && uId !== null && (
