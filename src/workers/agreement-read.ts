@@ -9,7 +9,7 @@ import Dexie from 'dexie';
 import type { LayerStatus } from '../core/backup/model';
 import type { LayerRow, SlotsmithDb } from '../db/schema';
 
-// Large enough that 100k utterances take ~50 reads, small enough that one page's rows stay a few MB.
+// Utterance ids per page: 100k utterances take ~50 reads, and one page's rows stay a few MB.
 export const LAYER_PAGE_UTTERANCES = 2000;
 
 export interface LayerScanChoice {
@@ -20,6 +20,7 @@ export interface LayerScanChoice {
   statuses: readonly LayerStatus[] | null;
 }
 
+/** Progress through the span of utterance ids being read. */
 export interface LayerScanProgress {
   done: number;
   total: number;
@@ -27,34 +28,27 @@ export interface LayerScanProgress {
 
 type IndexKey = [number, string, LayerStatus];
 
-/** Sorted distinct utterance ids that carry a chosen layer, from index keys alone. */
-export async function layerUtteranceIds(db: SlotsmithDb, choice: LayerScanChoice): Promise<Int32Array> {
+/**
+ * The lowest and highest utterance id carrying a chosen layer: per chosen (annotator, status) index
+ * key, its first and last entry (entries of one key are in primary-key order, so utterance order).
+ * A handful of index reads, however large the project; null when no layer is chosen.
+ */
+export async function layerUtteranceSpan(db: SlotsmithDb, choice: LayerScanChoice): Promise<{ first: number; last: number } | null> {
   const { minKey, maxKey } = Dexie;
   const index = db.layers.where('[projectId+annotator+status]');
-  const ranges: [unknown[], unknown[]][] = [];
-  if (choice.annotators === null && choice.statuses === null) {
-    ranges.push([
-      [choice.projectId, minKey, minKey],
-      [choice.projectId, maxKey, maxKey],
-    ]);
-  } else {
-    const present = (await index.between([choice.projectId, minKey, minKey], [choice.projectId, maxKey, maxKey]).uniqueKeys()) as unknown as IndexKey[];
-    for (const key of present) {
-      const [, annotator, status] = key;
-      if (choice.annotators !== null && !choice.annotators.includes(annotator)) continue;
-      if (choice.statuses !== null && !choice.statuses.includes(status)) continue;
-      ranges.push([key, key]);
-    }
+  const present = (await index.between([choice.projectId, minKey, minKey], [choice.projectId, maxKey, maxKey]).uniqueKeys()) as unknown as IndexKey[];
+  let first = Infinity;
+  let last = -Infinity;
+  for (const key of present) {
+    const [, annotator, status] = key;
+    if (choice.annotators !== null && !choice.annotators.includes(annotator)) continue;
+    if (choice.statuses !== null && !choice.statuses.includes(status)) continue;
+    const low = (await db.layers.where('[projectId+annotator+status]').equals(key).limit(1).primaryKeys()) as unknown as [number, string][];
+    const high = (await db.layers.where('[projectId+annotator+status]').equals(key).reverse().limit(1).primaryKeys()) as unknown as [number, string][];
+    first = Math.min(first, low[0]?.[0] ?? Infinity);
+    last = Math.max(last, high[0]?.[0] ?? -Infinity);
   }
-  const parts: number[][] = [];
-  for (const [low, high] of ranges) {
-    const keys = (await index.between(low, high, true, true).primaryKeys()) as unknown as [number, string][];
-    parts.push(keys.map((k) => k[0]));
-  }
-  const all = Int32Array.from(parts.flat()).sort();
-  let kept = 0;
-  for (let i = 0; i < all.length; i++) if (i === 0 || all[i] !== all[kept - 1]) all[kept++] = all[i] as number;
-  return all.slice(0, kept);
+  return first <= last ? { first, last } : null;
 }
 
 function rowChosen(row: LayerRow, choice: LayerScanChoice): boolean {
@@ -85,26 +79,36 @@ export async function layersScan(
     steps[name] = (steps[name] ?? 0) + t - at;
     at = t;
   };
-  const ids = await layerUtteranceIds(db, choice);
+  const span = await layerUtteranceSpan(db, choice);
   lap('index keys');
+  if (span === null) {
+    onProgress({ done: 0, total: 0 });
+    return { utterances: 0, layers: 0 };
+  }
   const { minKey, maxKey } = Dexie;
+  const total = span.last - span.first + 1;
   let layers = 0;
-  onProgress({ done: 0, total: ids.length });
-  for (let from = 0; from < ids.length; from += pageSize) {
-    const to = Math.min(ids.length, from + pageSize);
-    const first = ids[from] as number;
-    const last = ids[to - 1] as number;
-    const rows = await db.layers.where('[utteranceId+annotator]').between([first, minKey], [last, maxKey], true, true).toArray();
+  let utterances = 0;
+  let previous = -1;
+  onProgress({ done: 0, total });
+  // Pages by utterance-id span: ids of one project are mostly contiguous (imports add them in runs).
+  for (let from = span.first; from <= span.last; from += pageSize) {
+    const to = Math.min(span.last, from + pageSize - 1);
+    const rows = await db.layers.where('[utteranceId+annotator]').between([from, minKey], [to, maxKey], true, true).toArray();
     lap('page reads');
     for (const row of rows) {
       if (!rowChosen(row, choice)) continue;
       layers++;
+      if (row.utteranceId !== previous) {
+        utterances++;
+        previous = row.utteranceId;
+      }
       visit(row);
     }
     lap('row visits');
-    onProgress({ done: to, total: ids.length });
+    onProgress({ done: to - span.first + 1, total });
   }
-  return { utterances: ids.length, layers };
+  return { utterances, layers };
 }
 
 /** Chosen layers per annotator and status, from the index alone (no rows read). */

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { LayerRow } from '../../src/db/schema';
-import { layerStatusCounts, layersScan, layerUtteranceIds } from '../../src/workers/agreement-read';
+import { layerStatusCounts, layersScan, layerUtteranceSpan } from '../../src/workers/agreement-read';
 import { dbTest, SAMPLE } from '../db/helpers';
 import { agreementSeed } from './agreement-seed';
 
@@ -32,7 +32,11 @@ describe('layersScan', () => {
       expect(seen).toEqual(want);
       expect(counts.layers).toBe(want.length);
       expect(counts.utterances).toBe(new Set(want.map((r) => r.utteranceId)).size);
-      expect(progress.at(-1)).toBe(`${counts.utterances}/${counts.utterances}`);
+      // Progress runs over the span of utterance ids, from the first chosen to the last.
+      const ids = want.map((r) => r.utteranceId);
+      const span = Math.max(...ids) - Math.min(...ids) + 1;
+      expect(progress[0]).toBe(`0/${span}`);
+      expect(progress.at(-1)).toBe(`${span}/${span}`);
     }
   });
 
@@ -42,8 +46,13 @@ describe('layersScan', () => {
     await layersScan(db, { projectId: first.projectId, annotators: null, statuses: null }, (row) => seen.push(row), undefined, 3);
     expect(seen.length).toBe(30 + 15 + 5);
     expect(seen.every((r) => r.projectId === first.projectId)).toBe(true);
-    const ids = await layerUtteranceIds(db, { projectId: second.projectId, annotators: null, statuses: null });
-    expect([...ids]).toEqual([...second.idOf.values()].slice(0, 10));
+    const ids = [...second.idOf.values()];
+    expect(await layerUtteranceSpan(db, { projectId: second.projectId, annotators: null, statuses: null })).toEqual({ first: Math.min(...ids), last: Math.max(...ids) });
+    // ann-b holds every second utterance of the first project; gold the first five.
+    const firstIds = [...first.idOf.values()];
+    expect(await layerUtteranceSpan(db, { projectId: first.projectId, annotators: ['ann-b'], statuses: ['done'] })).toEqual({ first: firstIds[0], last: firstIds[28] });
+    expect(await layerUtteranceSpan(db, { projectId: first.projectId, annotators: ['gold'], statuses: null })).toEqual({ first: firstIds[0], last: firstIds[4] });
+    expect(await layerUtteranceSpan(db, { projectId: first.projectId, annotators: ['ann-b'], statuses: ['draft'] })).toBeNull();
   });
 
   it('counts layers per annotator and status from the index', async () => {

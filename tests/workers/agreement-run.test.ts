@@ -174,6 +174,7 @@ describe('agreementRun on the sample corpus', () => {
     ]);
     const seen: string[] = [];
     ok(await agreementRun(db, request(projectId, { bootstrap: 250 }), (p) => seen.push(`${p.phase} ${p.done}/${p.total}`)));
+    // Reading runs over the span of utterance ids (the seed stores 2,000, contiguous).
     expect(seen[0]).toBe(`reading 0/2000`);
     expect(seen).toContain('reading 2000/2000');
     expect(seen.filter((s) => s.startsWith('intervals'))).toEqual(['intervals 0/250', 'intervals 100/250', 'intervals 200/250']);

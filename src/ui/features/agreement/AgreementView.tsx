@@ -20,7 +20,7 @@ import './agreement.css';
 
 function progressText(p: AgreementProgress | null): string {
   if (p === null) return 'Starting…';
-  if (p.phase === 'reading') return `Reading layers: ${countText(p.done)} of ${countText(p.total)} utterances`;
+  if (p.phase === 'reading') return `Reading layers: ${p.total === 0 ? 0 : Math.floor((100 * p.done) / p.total)}%`;
   if (p.phase === 'computing') return 'Computing the figures…';
   return `Intervals: ${countText(p.done)} of ${countText(p.total)} resamples`;
 }

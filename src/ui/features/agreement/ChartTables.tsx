@@ -3,11 +3,12 @@ import type { SlotFigures } from '../../../core/agreement';
 import type { TimePoint } from '../../../workers/agreement-time';
 import { countText, figureText, timeText } from './agreement-format';
 import { slotRows } from './charts/SlotBars';
+import { LazyDetails } from './LazyDetails';
 
 export function SlotTable({ perSlot, names }: { perSlot: Record<string, SlotFigures>; names: [string, string] }) {
   return (
-    <details className="chart-table">
-      <summary>Per-slot figures as a table</summary>
+    <LazyDetails className="chart-table" summary="Per-slot figures as a table">
+      {() => (
       <table>
         <caption>Per-slot agreement</caption>
         <thead>
@@ -33,14 +34,15 @@ export function SlotTable({ perSlot, names }: { perSlot: Record<string, SlotFigu
           ))}
         </tbody>
       </table>
-    </details>
+      )}
+    </LazyDetails>
   );
 }
 
 export function ConfusionTable({ labels, counts, names }: { labels: string[]; counts: number[][]; names: [string, string] }) {
   return (
-    <details className="chart-table">
-      <summary>Token counts as a table</summary>
+    <LazyDetails className="chart-table" summary="Token counts as a table">
+      {() => (
       <table>
         <caption>
           Tokens by slot type: rows {names[0]}, columns {names[1]}
@@ -68,14 +70,15 @@ export function ConfusionTable({ labels, counts, names }: { labels: string[]; co
           ))}
         </tbody>
       </table>
-    </details>
+      )}
+    </LazyDetails>
   );
 }
 
 export function TimeTable({ points }: { points: TimePoint[] }) {
   return (
-    <details className="chart-table">
-      <summary>Agreement over time as a table</summary>
+    <LazyDetails className="chart-table" summary="Agreement over time as a table">
+      {() => (
       <table>
         <caption>Slot kappa as layers were completed</caption>
         <thead>
@@ -97,6 +100,7 @@ export function TimeTable({ points }: { points: TimePoint[] }) {
           ))}
         </tbody>
       </table>
-    </details>
+      )}
+    </LazyDetails>
   );
 }

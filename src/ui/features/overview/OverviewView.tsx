@@ -10,6 +10,7 @@ import { appDb } from '../../app/db';
 import type { ProjectViewProps } from '../../app/project-views';
 import { BarList } from './charts/BarList';
 import { LineChart } from './charts/LineChart';
+import { LazyDetails } from './LazyDetails';
 import { StatusBars } from './charts/StatusBars';
 import { overviewStart } from './overview-client';
 import { distributionStatuses, overviewSourceOf, peopleLayers, progressTableRows } from './overview-model';
@@ -66,8 +67,8 @@ function ProgressSection({ result }: { result: OverviewResult }) {
     <section aria-labelledby="overview-progress-title">
       <h3 id="overview-progress-title">Progress per annotator</h3>
       <StatusBars rows={rows} />
-      <details className="overview-table">
-        <summary>Layers by status as a table</summary>
+      <LazyDetails className="overview-table" summary="Layers by status as a table">
+        {() => (
         <table>
           <caption>Layers per annotator by status</caption>
           <thead>
@@ -91,12 +92,13 @@ function ProgressSection({ result }: { result: OverviewResult }) {
             ))}
           </tbody>
         </table>
-      </details>
+        )}
+      </LazyDetails>
       <h4>Layers done over time</h4>
       <LineChart title="Layers done per annotator, running total by day of their last change" series={series} yTitle="layers done" />
       <p className="overview-note">By the day (UTC) each layer now marked done was last changed; a layer reopened later counts from its new day.</p>
-      <details className="overview-table">
-        <summary>Layers done over time as a table</summary>
+      <LazyDetails className="overview-table" summary="Layers done over time as a table">
+        {() => (
         <table>
           <caption>Layers done, running total by day</caption>
           <thead>
@@ -118,15 +120,16 @@ function ProgressSection({ result }: { result: OverviewResult }) {
             )}
           </tbody>
         </table>
-      </details>
+        )}
+      </LazyDetails>
     </section>
   );
 }
 
 function DistributionTable({ caption, head, rows }: { caption: string; head: string; rows: { name: string; value: number }[] }) {
   return (
-    <details className="overview-table">
-      <summary>{caption} as a table</summary>
+    <LazyDetails className="overview-table" summary={`${caption} as a table`}>
+      {() => (
       <table>
         <caption>{caption}</caption>
         <thead>
@@ -144,7 +147,8 @@ function DistributionTable({ caption, head, rows }: { caption: string; head: str
           ))}
         </tbody>
       </table>
-    </details>
+      )}
+    </LazyDetails>
   );
 }
 
@@ -169,7 +173,7 @@ export function OverviewView({ projectId }: ProjectViewProps) {
       {state.kind === 'running' && (
         <div role="status" className="overview-progress">
           <progress aria-label="Reading the layers" {...(state.progress === null ? {} : { value: state.progress.done, max: Math.max(1, state.progress.total) })} />
-          <span>{state.progress === null ? 'Starting…' : `Reading layers: ${fmt(state.progress.done)} of ${fmt(state.progress.total)} utterances`}</span>
+          <span>{state.progress === null ? 'Starting…' : `Reading layers: ${state.progress.total === 0 ? 0 : Math.floor((100 * state.progress.done) / state.progress.total)}%`}</span>
         </div>
       )}
       {state.kind === 'failed' && (
