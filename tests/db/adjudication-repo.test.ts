@@ -112,3 +112,23 @@ describe('disagreement listing', () => {
     });
   });
 });
+
+describe('disagreements across many utterance pages', () => {
+  it('pages and steps through a project larger than one read', async () => {
+    const db = dbTest();
+    const project = await projectCreate(db, { name: 'Big', schema: SCHEMA });
+    const texts = Array.from({ length: 1200 }, (_, i) => utteranceMake(`plumber on friday ${i}`, ['B-service', 'O', 'B-day', 'O'], { id: `big-${i}`, intent: 'book_visit' }));
+    const ana = await batchBegin(db, project.id, { fileName: 'ana.iob', format: 'columns', annotator: 'ana' });
+    await batchAppend(db, ana, { utterances: texts });
+    // ben differs on every 50th utterance (the day left out).
+    const benTexts = texts.map((u, i) => (i % 50 === 7 ? { ...u, tags: ['B-service', 'O', 'O', 'O'] } : u));
+    const ben = await batchBegin(db, project.id, { fileName: 'ben.iob', format: 'columns', annotator: 'ben' });
+    await batchAppend(db, ben, { utterances: benTexts, attach: 'external-id' });
+    const want = Array.from({ length: 1200 }, (_, i) => i).filter((i) => i % 50 === 7).map((i) => i + 1);
+    expect((await allPages(db, project.id, 7)).map((r) => r.seq)).toEqual(want);
+    expect((await disagreementStep(db, project.id, 'ana', 'ben', null, -1))?.seq).toBe(want[want.length - 1]);
+    expect((await disagreementStep(db, project.id, 'ana', 'ben', 600, -1))?.seq).toBe(558);
+    expect((await disagreementStep(db, project.id, 'ana', 'ben', 10, 1))?.seq).toBe(58);
+    expect(await disagreementSummary(db, project.id, 'ana', 'ben')).toEqual({ shared: 1200, disagreeing: want.length, resolved: 0 });
+  });
+});

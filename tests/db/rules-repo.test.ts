@@ -61,6 +61,22 @@ describe('rule scan', () => {
   });
 });
 
+describe('rule scan on a project larger than one slice', () => {
+  it('reports progress slice by slice and finds every stray I- tag', async () => {
+    const db = dbTest();
+    const project = await projectCreate(db, { name: 'Big', schema: SCHEMA });
+    const batchId = await batchBegin(db, project.id, { fileName: 'big.iob', format: 'columns', annotator: 'ana' });
+    // Every 97th utterance has a stray I-day after O.
+    const utterances = Array.from({ length: 2500 }, (_, i) => utteranceMake(`visit on friday ${i}`, ['O', 'O', i % 97 === 0 ? 'I-day' : 'B-day', 'O'], { intent: 'book_visit' }));
+    await batchAppend(db, batchId, { utterances });
+    const progress: string[] = [];
+    const scan = await rulesScan(db, project.id, (p) => progress.push(`${p.done}/${p.total}`));
+    expect(progress).toEqual(['1000/2500', '2000/2500', '2500/2500']);
+    expect(scan.layers.map((l) => l.seq)).toEqual(Array.from({ length: 2500 }, (_, i) => i).filter((i) => i % 97 === 0).map((i) => i + 1));
+    expect(scan.findings).toBe(scan.layers.length);
+  });
+});
+
 describe('rule repair and undo', () => {
   it('repairs every listed layer in one go: no transition finding left, one revision and history row each, others untouched', async () => {
     const db = dbTest();
