@@ -19,9 +19,6 @@ export default defineConfig({
   testDir: 'e2e',
   fullyParallel: false,
   workers: 1,
-  // One retry in CI only: a rare hang of the export worker after its last chunk was seen once
-  // (stop note of 2026-12-02); it is a bug to find, not to hide, so local runs never retry.
-  retries: process.env.CI ? 1 : 0,
   reporter: [['list']],
   outputDir: separate ? `test-results-${port}` : 'test-results',
   timeout: 60_000,
