@@ -30,6 +30,9 @@ const HEAP_TARGET_MB = 150;
 const LONG = 20 * 60_000;
 // One frame at 60 Hz; a delta of n frames means n - 1 were dropped (common practice, no source).
 const FRAME_MS = 1000 / 60;
+// The table's fixed row height (CORPUS_ROW_HEIGHT); positions come from data-index, since the browser
+// writes big translateY values back rounded to six digits.
+const ROW_HEIGHT = 40;
 
 export interface CorpusTableBenchOptions {
   root: string;
@@ -113,7 +116,7 @@ interface ScrollResult {
 /** Scroll the table body by `pxPerFrame` each frame for `ms`, recording frame deltas. */
 async function scrollFrames(page: Page, pxPerFrame: number, ms: number): Promise<ScrollResult> {
   return page.evaluate(
-    ({ pxPerFrame, ms, frameMs }) =>
+    ({ pxPerFrame, ms, frameMs, rowHeight }) =>
       new Promise<ScrollResult>((resolve) => {
         const body = document.querySelector<HTMLElement>('.corpus-body');
         if (body === null) throw new Error('no table body');
@@ -127,7 +130,7 @@ async function scrollFrames(page: Page, pxPerFrame: number, ms: number): Promise
           last = now;
           const top = body.scrollTop;
           const waiting = [...body.querySelectorAll<HTMLElement>('[role=row]')].some((row) => {
-            const start = Number(/translateY\((\d+)/.exec(row.style.transform)?.[1] ?? -1);
+            const start = Number(row.dataset.index ?? -1) * rowHeight;
             return start >= top - 40 && start <= top + body.clientHeight && row.querySelector('[role=cell]')?.textContent === '…';
           });
           if (waiting) waitingFrames += 1;
@@ -136,7 +139,7 @@ async function scrollFrames(page: Page, pxPerFrame: number, ms: number): Promise
             const sorted = [...deltas].sort((a, b) => a - b);
             const at = (q: number) => sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))] ?? 0;
             const dropped = deltas.reduce((n, d) => n + Math.max(0, Math.round(d / frameMs) - 1), 0);
-            resolve({ frames: deltas.length, dropped, p50: at(0.5), p95: at(0.95), max: sorted[sorted.length - 1] ?? 0, waitingFrames, rowsPassed: Math.round((body.scrollTop - startTop) / 40) });
+            resolve({ frames: deltas.length, dropped, p50: at(0.5), p95: at(0.95), max: sorted[sorted.length - 1] ?? 0, waitingFrames, rowsPassed: Math.round((body.scrollTop - startTop) / rowHeight) });
             return;
           }
           body.scrollTop += pxPerFrame;
@@ -147,14 +150,14 @@ async function scrollFrames(page: Page, pxPerFrame: number, ms: number): Promise
           requestAnimationFrame(step);
         });
       }),
-    { pxPerFrame, ms, frameMs: FRAME_MS },
+    { pxPerFrame, ms, frameMs: FRAME_MS, rowHeight: ROW_HEIGHT },
   );
 }
 
 /** Jump to a point far down and time until the rows there are read and painted (-1: not within 10 s). */
 async function jumpFill(page: Page, fraction: number): Promise<number> {
   return page.evaluate(
-    (fraction) =>
+    ({ fraction, rowHeight }) =>
       new Promise<number>((resolve) => {
         const body = document.querySelector<HTMLElement>('.corpus-body');
         if (body === null) throw new Error('no table body');
@@ -163,7 +166,7 @@ async function jumpFill(page: Page, fraction: number): Promise<number> {
         const check = () => {
           const top = body.scrollTop;
           const rows = [...body.querySelectorAll<HTMLElement>('[role=row]')].filter((row) => {
-            const start = Number(/translateY\((\d+)/.exec(row.style.transform)?.[1] ?? -1);
+            const start = Number(row.dataset.index ?? -1) * rowHeight;
             return start >= top - 40 && start <= top + body.clientHeight;
           });
           if (rows.length > 0 && rows.every((row) => row.querySelector('[role=cell]')?.textContent !== '…')) resolve(performance.now() - t0);
@@ -172,7 +175,7 @@ async function jumpFill(page: Page, fraction: number): Promise<number> {
         };
         requestAnimationFrame(check);
       }),
-    fraction,
+    { fraction, rowHeight: ROW_HEIGHT },
   );
 }
 

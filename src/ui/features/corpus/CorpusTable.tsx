@@ -118,6 +118,8 @@ interface RowViewProps {
   onOpen: (utteranceId: number) => void;
   onFocusIndex: (index: number) => void;
   Render: ReactTable<typeof features, Slot>['FlexRender'];
+  /** Only for the comparison: new columns must render the row again. */
+  columns: unknown;
 }
 
 const RowView = memo(function RowView({ row, start, tabbable, onOpen, onFocusIndex, Render }: RowViewProps) {
@@ -140,14 +142,23 @@ const RowView = memo(function RowView({ row, start, tabbable, onOpen, onFocusInd
       ))}
     </div>
   );
-});
+},
+// A new page of data gives every row a new table object; a row whose data, place and focus did not change need not render again.
+(a, b) => a.row.original.row === b.row.original.row && a.row.original.index === b.row.original.index && a.start === b.start && a.tabbable === b.tabbable && a.columns === b.columns && a.onOpen === b.onOpen);
 
 /** The utterance table: every matching row reachable by scrolling, only the visible ones rendered and read. */
 export function CorpusTable({ projectId, ids, layer, blind, schema, sort, onSort, onOpen, describedBy, busy, signature }: CorpusTableProps) {
   const scrollRef = useRef<HTMLDivElement>(null);
   // The virtualiser's object changes meaning on every scroll, so nothing derived from it may be memoised; this component does not.
   // eslint-disable-next-line react-hooks/incompatible-library
-  const virtualizer = useVirtualizer({ count: ids.length, getScrollElement: () => scrollRef.current, estimateSize: () => CORPUS_ROW_HEIGHT, overscan: 10 });
+  const virtualizer = useVirtualizer({
+    count: ids.length,
+    getScrollElement: () => scrollRef.current,
+    estimateSize: () => CORPUS_ROW_HEIGHT,
+    overscan: 10,
+    // Let React batch scroll updates instead of rendering inside each scroll event.
+    useFlushSync: false,
+  });
   const items = virtualizer.getVirtualItems();
   const first = items[0]?.index ?? 0;
   const last = items[items.length - 1]?.index ?? -1;
@@ -245,9 +256,8 @@ export function CorpusTable({ projectId, ids, layer, blind, schema, sort, onSort
   const visibleRows = Math.max(1, Math.floor((scrollRef.current?.clientHeight ?? CORPUS_ROW_HEIGHT * 10) / CORPUS_ROW_HEIGHT) - 1);
 
   function keyDown(event: KeyboardEvent<HTMLDivElement>) {
-    const target = event.target as HTMLElement;
-    const at = Number(target.dataset.index ?? Number.NaN);
-    if (Number.isNaN(at)) return;
+    // The focused row may have scrolled out and unmounted (focus then sits on the body), so the place comes from state.
+    const at = focusIndex;
     if (event.key === 'Enter') {
       const id = ids[at];
       if (id !== undefined) onOpen(id);
@@ -257,6 +267,8 @@ export function CorpusTable({ projectId, ids, layer, blind, schema, sort, onSort
     const next = rowIndexAfterKey(event.key, at, ids.length, visibleRows);
     if (next === null) return;
     event.preventDefault();
+    // Keep the keys coming here while the target row is not rendered yet; the effect above moves focus onto it.
+    if (next < first || next > last) scrollRef.current?.focus({ preventScroll: true });
     focusWanted.current = true;
     setFocusIndex(next);
     virtualizer.scrollToIndex(next, { align: 'auto' });
@@ -293,7 +305,7 @@ export function CorpusTable({ projectId, ids, layer, blind, schema, sort, onSort
           </div>
         ))}
       </div>
-      <div role="rowgroup" ref={scrollRef} className="corpus-body" onKeyDown={keyDown}>
+      <div role="rowgroup" ref={scrollRef} className="corpus-body" tabIndex={-1} onKeyDown={keyDown}>
         <div role="none" className="corpus-sizer" style={{ height: virtualizer.getTotalSize() }}>
           {items.map((item) => {
             const row = rows[item.index - pageFrom];
@@ -307,6 +319,7 @@ export function CorpusTable({ projectId, ids, layer, blind, schema, sort, onSort
                 onOpen={onOpen}
                 onFocusIndex={setFocusIndex}
                 Render={table.FlexRender}
+                columns={columns}
               />
             );
           })}
