@@ -10,3 +10,10 @@ createRoot(container).render(
     <App />
   </StrictMode>,
 );
+
+// Offline use after the first load (public/sw.js); the dev server has no built file list to cache.
+if (import.meta.env.PROD && 'serviceWorker' in navigator) {
+  window.addEventListener('load', () => {
+    navigator.serviceWorker.register('/sw.js').catch((error: unknown) => console.warn('offline use unavailable: the service worker did not register', error));
+  });
+}
