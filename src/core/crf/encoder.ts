@@ -2,6 +2,7 @@ import { attributeAt, CRF_WINDOW, wordTemplates } from './attributes';
 import type { IntBuffer } from './int-buffer';
 
 const SPAN = 2 * CRF_WINDOW + 1;
+const WORD_CACHE_LIMIT = 200_000;
 
 /**
  * Interns attribute strings to dense ids and caches, per distinct word, the ids it contributes at
@@ -60,6 +61,8 @@ export class AttributeEncoder {
   private wordIds(word: string): Int32Array[] {
     let cached = this.words.get(word);
     if (cached === undefined) {
+      // Rare words (phone numbers, references) would grow the cache without bound over a large corpus.
+      if (this.words.size >= WORD_CACHE_LIMIT) this.words.clear();
       const templates = wordTemplates(word);
       cached = [];
       for (let offset = -CRF_WINDOW; offset <= CRF_WINDOW; offset++) {

@@ -8,6 +8,18 @@ export class ViterbiDecoder {
   readonly labelCount: number;
   private delta = new Float64Array(0);
   private back = new Int32Array(0);
+  private maskSeen: Float64Array | null = null;
+  /** Allowed predecessors of each label, so the inner loop does no mask tests; built once per mask array (masks are not edited in place). */
+  private from: Int32Array[] = [];
+
+  private predecessors(pair: Float64Array | null): Int32Array[] {
+    if (pair !== this.maskSeen || this.from.length === 0) {
+      const L = this.labelCount;
+      this.from = Array.from({ length: L }, (_, j) => Int32Array.from({ length: L }, (_, i) => i).filter((i) => pair === null || pair[i * L + j] !== 0));
+      this.maskSeen = pair;
+    }
+    return this.from;
+  }
 
   constructor(labelCount: number) {
     this.labelCount = labelCount;
@@ -20,15 +32,17 @@ export class ViterbiDecoder {
       this.back = new Int32Array(tokens * L * 2);
     }
     const { delta, back } = this;
+    const from = this.predecessors(pair);
     for (let j = 0; j < L; j++) delta[j] = start === null || start[j] !== 0 ? (state[j] as number) : -Infinity;
     for (let t = 1; t < tokens; t++) {
       const prev = (t - 1) * L;
       const base = t * L;
       for (let j = 0; j < L; j++) {
+        const allowed = from[j] as Int32Array;
         let best = -Infinity;
         let arg = -1;
-        for (let i = 0; i < L; i++) {
-          if (pair !== null && pair[i * L + j] === 0) continue;
+        for (let k = 0; k < allowed.length; k++) {
+          const i = allowed[k] as number;
           const v = (delta[prev + i] as number) + (trans[i * L + j] as number);
           if (v > best) {
             best = v;
