@@ -14,7 +14,7 @@ export interface CorpusAnswer {
   total: number;
   /** Layer owners of the project (people first), for the layer and annotator choices. */
   annotators: string[];
-  /** Intent names met in layers and files, sorted. */
+  /** Intent names the shown layer uses (the file's where it has no layer), sorted. */
   intents: string[];
   /** Slot names met in the shown layer, sorted. */
   slots: string[];
@@ -54,11 +54,15 @@ export class CorpusService {
       const ids = corpusQueryRun(index, query);
       const column = query.layer === null ? undefined : index.layers.get(query.layer);
       const sorted = (names: Iterable<string>) => [...names].sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
+      // Only the shown layer's intents (and the files'): in blind mode others' choices must not show, even as names.
+      const used = new Set<number>();
+      for (let i = 0; i < index.ids.length; i++) used.add(column !== undefined && column.status[i] !== 0 ? (column.intent[i] as number) : (index.intentHint[i] as number));
+      used.delete(0);
       return {
         ids,
         total: index.ids.length,
         annotators: index.annotators,
-        intents: sorted(index.intents),
+        intents: sorted([...used].map((code) => index.intents[code - 1] as string)),
         slots: sorted(column?.slots.keys() ?? []),
         index: how,
         indexMillis: indexed - started,

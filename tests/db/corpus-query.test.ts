@@ -147,6 +147,8 @@ describe('corpus index and query', () => {
     expect(first.annotators).toEqual(['ana', 'ben']);
     expect(first.slots).toEqual(['area', 'budget', 'day', 'service']);
     expect(first.intents).toEqual(['ask_price', 'book_visit', 'cancel']);
+    // Intent choices come from the shown layer only (ana's cancel is not offered when ben's layer is shown).
+    expect((await service.query(projectId, query({}, 'id', false, 'ben', true))).intents).toEqual(['ask_price', 'book_visit']);
     expect(first.index).toBe('built');
     const again = await service.query(projectId, query({ status: 'done' }));
     expect(again.index).toBe('reused');

@@ -1,6 +1,6 @@
 import { createColumnHelper, rowSortingFeature, tableFeatures, useTable, type ReactTable, type Row, type SortingState, type Updater } from '@tanstack/react-table';
 import { useVirtualizer } from '@tanstack/react-virtual';
-import { memo, useEffect, useMemo, useRef, useState, type KeyboardEvent } from 'react';
+import { memo, useCallback, useEffect, useMemo, useRef, useState, type KeyboardEvent } from 'react';
 import type { ProjectSchema } from '../../../core/backup/model';
 import { CORPUS_SORT_DEFAULT, CORPUS_SORT_KEYS, type CorpusSort, type CorpusSortKey } from '../../../db/corpus-query';
 import { corpusRowsRead, type CorpusRow } from '../../../db/corpus-rows';
@@ -115,15 +115,16 @@ interface RowViewProps {
   row: Row<typeof features, Slot>;
   start: number;
   tabbable: boolean;
-  onOpen: (utteranceId: number) => void;
+  /** Opens the row at a table position (its id is known before the row is read). */
+  onOpenAt: (index: number) => void;
   onFocusIndex: (index: number) => void;
   Render: ReactTable<typeof features, Slot>['FlexRender'];
   /** Only for the comparison: new columns must render the row again. */
   columns: unknown;
 }
 
-const RowView = memo(function RowView({ row, start, tabbable, onOpen, onFocusIndex, Render }: RowViewProps) {
-  const { index, row: data } = row.original;
+const RowView = memo(function RowView({ row, start, tabbable, onOpenAt, onFocusIndex, Render }: RowViewProps) {
+  const { index } = row.original;
   return (
     <div
       role="row"
@@ -132,7 +133,7 @@ const RowView = memo(function RowView({ row, start, tabbable, onOpen, onFocusInd
       tabIndex={tabbable ? 0 : -1}
       className="corpus-row"
       style={{ transform: `translateY(${start}px)` }}
-      onClick={() => data !== undefined && onOpen(data.id)}
+      onClick={() => onOpenAt(index)}
       onFocus={() => onFocusIndex(index)}
     >
       {row.getAllCells().map((cell) => (
@@ -144,7 +145,7 @@ const RowView = memo(function RowView({ row, start, tabbable, onOpen, onFocusInd
   );
 },
 // A new page of data gives every row a new table object; a row whose data, place and focus did not change need not render again.
-(a, b) => a.row.original.row === b.row.original.row && a.row.original.index === b.row.original.index && a.start === b.start && a.tabbable === b.tabbable && a.columns === b.columns && a.onOpen === b.onOpen);
+(a, b) => a.row.original.row === b.row.original.row && a.row.original.index === b.row.original.index && a.start === b.start && a.tabbable === b.tabbable && a.columns === b.columns && a.onOpenAt === b.onOpenAt);
 
 /** The utterance table: every matching row reachable by scrolling, only the visible ones rendered and read. */
 export function CorpusTable({ projectId, ids, layer, blind, schema, sort, onSort, onOpen, describedBy, busy, signature }: CorpusTableProps) {
@@ -255,12 +256,19 @@ export function CorpusTable({ projectId, ids, layer, blind, schema, sort, onSort
   const tabbableIndex = focusIndex >= first && focusIndex <= last ? focusIndex : first;
   const visibleRows = Math.max(1, Math.floor((scrollRef.current?.clientHeight ?? CORPUS_ROW_HEIGHT * 10) / CORPUS_ROW_HEIGHT) - 1);
 
+  const openAt = useCallback(
+    (index: number) => {
+      const id = ids[index];
+      if (id !== undefined) onOpen(id);
+    },
+    [ids, onOpen],
+  );
+
   function keyDown(event: KeyboardEvent<HTMLDivElement>) {
     // The focused row may have scrolled out and unmounted (focus then sits on the body), so the place comes from state.
     const at = focusIndex;
     if (event.key === 'Enter') {
-      const id = ids[at];
-      if (id !== undefined) onOpen(id);
+      openAt(at);
       event.preventDefault();
       return;
     }
@@ -316,7 +324,7 @@ export function CorpusTable({ projectId, ids, layer, blind, schema, sort, onSort
                 row={row}
                 start={item.start}
                 tabbable={item.index === tabbableIndex}
-                onOpen={onOpen}
+                onOpenAt={openAt}
                 onFocusIndex={setFocusIndex}
                 Render={table.FlexRender}
                 columns={columns}

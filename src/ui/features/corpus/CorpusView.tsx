@@ -1,10 +1,11 @@
 import * as Comlink from 'comlink';
 import { useLiveQuery } from 'dexie-react-hooks';
-import { useCallback, useEffect, useMemo, useState } from 'react';
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { projectGet, utteranceCount } from '../../../db';
 import { corpusIndexSignature } from '../../../db/corpus-index';
 import type { CorpusFilter, CorpusQuery, CorpusSort } from '../../../db/corpus-query';
 import { corpusAnnotators, corpusIdsInSeqOrder } from '../../../db/corpus-rows';
+import type { CorpusAnswer } from '../../../db/corpus-service';
 import { useNav } from '../../../state/nav';
 import { useSession } from '../../../state/session';
 import type { ProjectViewProps } from '../../app/project-views';
@@ -18,8 +19,6 @@ import './corpus.css';
 interface Answer {
   key: string;
   ids: Int32Array;
-  slots: string[];
-  intents: string[];
 }
 
 const fmt = (n: number) => n.toLocaleString('en');
@@ -55,22 +54,32 @@ export function CorpusView({ projectId }: ProjectViewProps) {
   const [error, setError] = useState<string | null>(null);
   const [progress, setProgress] = useState<{ done: number; total: number } | null>(null);
 
+  // The worker's index is known to match this project state (then it answers even the plain view, quicker than reading the keys).
+  const warm = useRef<string | null>(null);
+  const [choices, setChoices] = useState<{ slots: string[]; intents: string[] }>({ slots: [], intents: [] });
+  const answered = (a: CorpusAnswer, state: string) => {
+    warm.current = state;
+    setChoices({ slots: a.slots, intents: a.intents });
+  };
+
   useEffect(() => {
     if (signature === undefined || annotatorsKey === undefined) return undefined;
     let live = true;
     const request: CorpusQuery = { layer, filter, sort: state.sort, blind };
+    const dataState = `${projectId}|${signature}`;
     const run = async (): Promise<Answer> => {
-      if (needsIndex) {
+      if (needsIndex || warm.current === dataState) {
         const a = await corpusWorker().query(
           projectId,
           request,
           Comlink.proxy((done: number, total: number) => live && setProgress({ done, total })),
         );
-        return { key, ids: a.ids, slots: a.slots, intents: a.intents };
+        if (live) answered(a, dataState);
+        return { key, ids: a.ids };
       }
       // Every utterance in seq order: the index keys alone, no worker, so a big project shows at once.
       const ids = await corpusIdsInSeqOrder(appDb(), projectId);
-      return { key, ids: state.sort.desc ? ids.reverse() : ids, slots: [], intents: [] };
+      return { key, ids: state.sort.desc ? ids.reverse() : ids };
     };
     run()
       .then((a) => {
@@ -86,17 +95,24 @@ export function CorpusView({ projectId }: ProjectViewProps) {
     // `key` stands for layer, filter, sort and blind.
   }, [key, signature, annotatorsKey, needsIndex, projectId]); // eslint-disable-line react-hooks/exhaustive-deps
 
-  // With the first rows on screen, build the filter index in the worker, so the first filter is quick.
+  // With the first rows on screen, build (or bring up to date) the filter index in the worker, so the next filter is quick.
   const shown = answer !== null;
   useEffect(() => {
-    if (!shown || needsIndex) return undefined;
+    if (!shown || signature === undefined) return undefined;
+    const dataState = `${projectId}|${signature}`;
+    if (warm.current === dataState) return undefined;
+    let live = true;
     const timer = setTimeout(() => {
-      void corpusWorker()
+      corpusWorker()
         .query(projectId, { layer, filter: {}, sort: { key: 'id', desc: false }, blind })
+        .then((a) => live && answered(a, dataState))
         .catch(() => undefined);
-    }, 1500);
-    return () => clearTimeout(timer);
-  }, [shown, needsIndex, projectId, layer, blind]);
+    }, 1000);
+    return () => {
+      live = false;
+      clearTimeout(timer);
+    };
+  }, [shown, signature, projectId, layer, blind]);
 
   const stateSet = useCallback((next: CorpusViewState) => queryReplace(corpusStateToQuery(next)), [queryReplace]);
   const onFilter = useCallback((f: CorpusFilter) => stateSet({ ...state, filter: f }), [state, stateSet]);
@@ -108,11 +124,11 @@ export function CorpusView({ projectId }: ProjectViewProps) {
   const schema = project?.schema ?? { slots: [], intents: [] };
   const slots = union(
     schema.slots.map((s) => s.name),
-    answer?.slots ?? [],
+    choices.slots,
   );
   const intents = union(
     schema.intents.map((i) => i.name),
-    answer?.intents ?? [],
+    choices.intents,
   );
   const busy = answer === null || answer.key !== key;
   const filters = corpusFilterCount(filter);
