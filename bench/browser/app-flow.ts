@@ -17,6 +17,8 @@ export async function appImport(page: Page, url: string, file: string, projectNa
   await page.goto(url);
   await page.getByLabel('New project name').fill(projectName);
   await page.getByRole('button', { name: 'Create project' }).click();
+  // A new project may open on another screen: go to the import screen by the header's button.
+  await page.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Bring in data' }).click();
   await page.getByRole('heading', { name: `Bring in data to ${projectName}` }).waitFor();
   await page.getByLabel('File to bring in').setInputFiles(file);
   const annotator = 'ann-bench';
