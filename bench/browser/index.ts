@@ -1,7 +1,9 @@
 /**
  * The browser part of `npm run bench`: in one Chromium run, the raw IndexedDB put rate (the limit),
  * the app's import of the 100k-utterance file through the real UI, the page heap after it, and the
- * export of the same project through "Write out data". Numbers are printed, never asserted.
+ * export of the same project through "Write out data", key-press-to-paint on the label screen of that
+ * project, and the agreement dashboard on a 100k double-annotated project. Numbers are printed,
+ * never asserted.
  */
 import { existsSync, statSync, writeFileSync } from 'node:fs';
 import { chromium } from '@playwright/test';
@@ -9,7 +11,9 @@ import { columnsWrite } from '../../src/core/formats';
 import type { Utterance } from '../../src/core/types';
 import { corpusGenerate } from '../../scripts/corpus/generate';
 import { appExport, appImport, heapAfterGc } from './app-flow';
+import { agreementDashboardBench, agreementDashboardPrint } from './agreement-dashboard';
 import { idbRawRate } from './idb-raw';
+import { labelKeysBench } from './label-keys';
 import { workerCdp, workerHeap, workerHeapPeak } from './worker-cdp';
 import { distEnsure, previewStart } from './server';
 
@@ -103,6 +107,12 @@ export async function browserBench(options: BrowserBenchOptions): Promise<void> 
       `  app export IOB2, one annotator, done   ${exported.seconds.toFixed(2).padStart(7)} s  ${(mb(exported.bytes) / exported.seconds).toFixed(1)} MB/s output (${mb(exported.bytes).toFixed(1)} MB)` +
         (exported.refused ? ', after the illegal-sequence refusal, written as they are' : ''),
     );
+
+    // The export leaves the page on the imported project's screens: its id is in the URL.
+    const projectId = Number(/#\/p\/(\d+)\//.exec(page.url())?.[1]);
+    console.log(`\n== browser: label screen of the ${count.toLocaleString('en')}-utterance project`);
+    await labelKeysBench(page, server.url, projectId);
+    agreementDashboardPrint(await agreementDashboardBench(page, server.url, { out: options.out, count, seed: options.seed }));
   } finally {
     await browser.close();
     server.stop();
