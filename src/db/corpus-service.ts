@@ -4,6 +4,7 @@
  * the corpus worker in the app and directly in tests.
  */
 import { corpusIndexBuild, corpusIndexSignature, corpusIndexUpdate, corpusSignatureSame, type CorpusIndex } from './corpus-index';
+import type { CorpusIndexStore } from './corpus-index-store';
 import { corpusQueryRun, type CorpusQuery } from './corpus-query';
 import type { SlotsmithDb } from './schema';
 
@@ -18,8 +19,8 @@ export interface CorpusAnswer {
   intents: string[];
   /** Slot names met in the shown layer, sorted. */
   slots: string[];
-  /** How the index was brought up to date for this answer. */
-  index: 'reused' | 'updated' | 'built';
+  /** How the index was brought up to date for this answer ('stored': the saved copy, current or updated). */
+  index: 'reused' | 'updated' | 'built' | 'stored';
   /** Milliseconds spent on the index and on filtering. */
   indexMillis: number;
   queryMillis: number;
@@ -29,19 +30,46 @@ export class CorpusService {
   private index: CorpusIndex | null = null;
   private pending: Promise<unknown> = Promise.resolve();
 
-  constructor(private readonly db: SlotsmithDb) {}
+  private saveTimer: ReturnType<typeof setTimeout> | undefined;
+
+  constructor(
+    private readonly db: SlotsmithDb,
+    private readonly store: CorpusIndexStore | null = null,
+    /** Milliseconds between an in-place update and saving the copy (edits come in bursts). */
+    private readonly saveDelay = 5000,
+  ) {}
+
+  private saveLater(index: CorpusIndex, delay: number): void {
+    if (this.store === null) return;
+    clearTimeout(this.saveTimer);
+    const store = this.store;
+    this.saveTimer = setTimeout(() => void store.save(index), delay);
+  }
 
   private async indexFresh(projectId: number, onProgress?: (done: number, total: number) => void): Promise<{ index: CorpusIndex; how: CorpusAnswer['index'] }> {
     const signature = await corpusIndexSignature(this.db, projectId);
     const current = this.index;
     if (current?.projectId === projectId) {
       if (corpusSignatureSame(current.signature, signature)) return { index: current, how: 'reused' };
-      if (await corpusIndexUpdate(this.db, current, signature)) return { index: current, how: 'updated' };
+      if (await corpusIndexUpdate(this.db, current, signature)) {
+        this.saveLater(current, this.saveDelay);
+        return { index: current, how: 'updated' };
+      }
     }
     // Drop the old index first: two 100k-utterance indexes need not live at once.
     this.index = null;
+    const stored = await this.store?.load(projectId);
+    if (stored !== undefined) {
+      const same = corpusSignatureSame(stored.signature, signature);
+      if (same || (await corpusIndexUpdate(this.db, stored, signature))) {
+        if (!same) this.saveLater(stored, this.saveDelay);
+        this.index = stored;
+        return { index: stored, how: 'stored' };
+      }
+    }
     const index = await corpusIndexBuild(this.db, projectId, onProgress);
     this.index = index;
+    this.saveLater(index, 0);
     return { index, how: 'built' };
   }
 

@@ -1,10 +1,11 @@
 /** The utterance table's worker: builds and keeps the project index off the page's thread and heap. */
 import * as Comlink from 'comlink';
 import { dbOpen } from '../db';
+import { corpusIndexStoreOpen } from '../db/corpus-index-store';
 import { CorpusService, type CorpusAnswer } from '../db/corpus-service';
 import type { CorpusQuery } from '../db/corpus-query';
 
-const service = new CorpusService(dbOpen());
+const service = new CorpusService(dbOpen(), corpusIndexStoreOpen(indexedDB));
 
 const api = {
   async query(projectId: number, query: CorpusQuery, onProgress?: (done: number, total: number) => void): Promise<CorpusAnswer> {

@@ -4,6 +4,7 @@
  * time; a brute-force filter over it is the reference), and the service must notice edits.
  */
 import fc from 'fast-check';
+import { IDBFactory } from 'fake-indexeddb';
 import { describe, expect, it } from 'vitest';
 import type { LayerStatus, ProjectSchema } from '../../src/core/backup/model';
 import { spansFromTags } from '../../src/core/schemes';
@@ -12,6 +13,7 @@ import { batchAppend, batchBegin, batchFinish } from '../../src/db/batch-repo';
 import { corpusIndexBuild } from '../../src/db/corpus-index';
 import { CORPUS_SORT_KEYS, corpusQueryRun, type CorpusFilter, type CorpusQuery, type CorpusSortKey } from '../../src/db/corpus-query';
 import { corpusRowsRead, type CorpusRow } from '../../src/db/corpus-rows';
+import { corpusIndexStoreOpen } from '../../src/db/corpus-index-store';
 import { CorpusService } from '../../src/db/corpus-service';
 import { layerSave } from '../../src/db/layer-repo';
 import { projectCreate } from '../../src/db/project-repo';
@@ -171,6 +173,29 @@ describe('corpus index and query', () => {
     const imported = await service.query(projectId, query({}));
     expect(imported.index).toBe('built');
     expect(imported.total).toBe(7);
+  });
+
+  it('a saved copy serves a new service (a reload), brought up to date after edits, not after an import', async () => {
+    const db = dbTest();
+    const projectId = await projectSample(db);
+    const store = corpusIndexStoreOpen(new IDBFactory());
+    const saved = async () => {
+      for (let i = 0; i < 100 && (await store.load(projectId)) === undefined; i++) await new Promise((r) => setTimeout(r, 5));
+    };
+    const first = await new CorpusService(db, store, 0).query(projectId, query({ slot: 'service' }));
+    expect(first.index).toBe('built');
+    await saved();
+    const reloaded = await new CorpusService(db, store, 0).query(projectId, query({ slot: 'service' }));
+    expect(reloaded.index).toBe('stored');
+    expect([...reloaded.ids]).toEqual([...first.ids]);
+    const hr5 = (await db.utterances.where('[projectId+externalId]').equals([projectId, 'hr-5']).first())?.id as number;
+    await layerSave(db, [hr5, 'ana'], { tags: ['B-service', 'O', 'B-day'], intent: 'book_visit', status: 'done' }, { expectedRevision: 0, who: 'ana' });
+    const edited = await new CorpusService(db, store, 0).query(projectId, query({ slot: 'service' }));
+    expect(edited.index).toBe('stored');
+    expect(await externalIds(db, edited.ids)).toEqual(['hr-1', 'hr-2', 'hr-4', 'hr-5']);
+    expect([...edited.ids]).toEqual([...corpusQueryRun(await corpusIndexBuild(db, projectId), query({ slot: 'service' }))]);
+    await fileImport(db, projectId, 'ben', [utteranceMake('gate hinge broken', undefined, { id: 'hr-8', intent: 'book_visit' })]);
+    expect((await new CorpusService(db, store, 0).query(projectId, query())).index).toBe('built');
   });
 
   it('an index updated edit by edit answers like one built afresh (property)', async () => {
