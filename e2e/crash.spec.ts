@@ -8,7 +8,7 @@
  *   SLOTSMITH_CRASH_EDITS=1000 SLOTSMITH_E2E_PORT=4188 npx playwright test e2e/crash.spec.ts
  */
 import { chromium, expect, test, type BrowserContext, type Page } from '@playwright/test';
-import { mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import config from '../playwright.config';
@@ -180,4 +180,69 @@ test('label edits survive SIGKILL of the browser at random moments', async ({ ba
   expect(lost).toBe(0);
   await context.close();
   rmSync(dir, { recursive: true, force: true });
+});
+
+function counts(page: Page): Promise<{ utterances: number; layers: number; history: number; batches: string[] }> {
+  return page.evaluate(
+    () =>
+      new Promise<{ utterances: number; layers: number; history: number; batches: string[] }>((resolve, reject) => {
+        const open = indexedDB.open('slotsmith');
+        open.onerror = () => reject(open.error);
+        open.onsuccess = () => {
+          const tx = open.result.transaction(['utterances', 'layers', 'history', 'batches']);
+          const out = { utterances: 0, layers: 0, history: 0, batches: [] as string[] };
+          const u = tx.objectStore('utterances').count();
+          u.onsuccess = () => (out.utterances = u.result);
+          const l = tx.objectStore('layers').count();
+          l.onsuccess = () => (out.layers = l.result);
+          const h = tx.objectStore('history').count();
+          h.onsuccess = () => (out.history = h.result);
+          const b = tx.objectStore('batches').getAll();
+          b.onsuccess = () => (out.batches = (b.result as { state: string }[]).map((r) => r.state));
+          tx.oncomplete = () => {
+            open.result.close();
+            resolve(out);
+          };
+        };
+      }),
+  );
+}
+
+test('a kill in the middle of an import leaves nothing partial; the next start undoes it and says so', async ({ baseURL }) => {
+  test.setTimeout(240_000);
+  const dir = mkdtempSync(join(tmpdir(), 'slotsmith-crash-import-'));
+  let text = '';
+  for (let i = 0; i < 120_000; i++) text += `# id = k-${i}\n# intent = book_visit\nplumber\tB-service\non\tO\nday${i}\tB-day\n\n`;
+  const file = join(dir, '..', `${dir.split('/').pop()}-visits.iob2`);
+  writeFileSync(file, text);
+  let context = await launch(dir);
+  let page = context.pages()[0] ?? (await context.newPage());
+  await page.goto(baseURL ?? '/');
+  await page.getByLabel('New project name').fill('Killed import');
+  await page.getByRole('button', { name: 'Create project' }).click();
+  await page.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Bring in data' }).click();
+  await page.getByLabel('File to bring in').setInputFiles(file);
+  await page.getByRole('button', { name: 'Preview' }).click();
+  await expect(page.getByTestId('preview-utterances')).toHaveText('120,000', { timeout: SLOW });
+  const before = await counts(page);
+  await page.getByRole('button', { name: 'Import' }).click();
+  // Some chunks are stored: the kill lands in the middle.
+  await expect(page.getByText(/^[1-9][\d,]* of 120,000 utterances$/)).toBeVisible({ timeout: SLOW });
+  const during = await counts(page);
+  process.kill(browserPid(dir), 'SIGKILL');
+  await context.close().catch(() => undefined);
+
+  context = await launch(dir);
+  page = context.pages()[0] ?? (await context.newPage());
+  await page.goto(baseURL ?? '/');
+  await expect(page.getByText(/An unfinished import was undone after the tab closed: .*visits\.iob2\. Nothing from it was kept\./)).toBeVisible({ timeout: SLOW });
+  const after = await counts(page);
+  expect(during.batches).toContain('importing');
+  expect({ utterances: after.utterances, layers: after.layers, history: after.history }).toEqual({ utterances: before.utterances, layers: before.layers, history: before.history });
+  expect(after.batches).not.toContain('importing');
+  await page.reload();
+  await expect(page.getByText(/An unfinished import was undone/)).toHaveCount(0);
+  await context.close();
+  rmSync(dir, { recursive: true, force: true });
+  rmSync(file, { force: true });
 });
