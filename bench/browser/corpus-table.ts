@@ -204,6 +204,8 @@ export async function corpusTableBench(options: CorpusTableBenchOptions): Promis
     // A filter needs the index: a new page's worker loads the copy saved by an earlier visit (or builds it when none was saved yet).
     const filtered = await firstRowsTime(page, `${base}?problems=1`);
     console.log(`  first rows, filtered (has rule problems)             ${ms(filtered.pageMs)} (wall ${ms(filtered.wallMs).trim()})`);
+    // The worker saves a built index right after answering; leaving at once would abort that write.
+    await page.waitForTimeout(3000);
     const again = await firstRowsTime(page, `${base}?problems=1&slot=day`);
     console.log(`  first rows, filtered, index saved by the visit before ${ms(again.pageMs)} (wall ${ms(again.wallMs).trim()})`);
     const sorted = await firstRowsTime(page, `${base}?sort=text`);
