@@ -246,3 +246,63 @@ test('a kill in the middle of an import leaves nothing partial; the next start u
   rmSync(dir, { recursive: true, force: true });
   rmSync(file, { force: true });
 });
+
+interface HistoryStep {
+  before: { status: string; revision: number } | null;
+  after: { status: string; revision: number };
+  who: string;
+}
+
+function historyOf(page: Page, utteranceId: number): Promise<HistoryStep[]> {
+  return page.evaluate(
+    (id) =>
+      new Promise<HistoryStep[]>((resolve, reject) => {
+        const open = indexedDB.open('slotsmith');
+        open.onerror = () => reject(open.error);
+        open.onsuccess = () => {
+          const req = open.result.transaction('history').objectStore('history').getAll();
+          req.onsuccess = () => {
+            open.result.close();
+            const rows = (req.result as (HistoryStep & { id: number; utteranceId: number; annotator: string })[]).filter((h) => h.utteranceId === id && h.annotator === 'ann-a');
+            resolve(rows.sort((a, b) => a.id - b.id).map((h) => ({ before: h.before && { status: h.before.status, revision: h.before.revision }, after: { status: h.after.status, revision: h.after.revision }, who: h.who })));
+          };
+        };
+      }),
+    utteranceId,
+  );
+}
+
+test('two tabs editing the same layer: the stale one is asked, and both versions stay in the history', async ({ page, context, baseURL }) => {
+  test.setTimeout(180_000);
+  await page.goto('/');
+  await page.getByRole('button', { name: /Try the demo project/ }).click();
+  await page.waitForURL(/#\/p\/\d+\//, { timeout: SLOW });
+  const projectId = Number(/#\/p\/(\d+)\//.exec(page.url())?.[1]);
+  const [id] = await utteranceIds(page, projectId, 1);
+  await page.goto(`${baseURL}/#/p/${projectId}/label?u=${id}`);
+  await page.getByRole('button', { name: 'Continue as ann-a' }).click();
+  await expect(page.getByText('Saved (revision 1).', { exact: true })).toBeVisible({ timeout: SLOW });
+
+  const other = await context.newPage();
+  await other.goto(`${baseURL}/#/p/${projectId}/label?u=${id}`);
+  await expect(other.getByText('Saved (revision 1).', { exact: true })).toBeVisible({ timeout: SLOW });
+  await tokens(other).focus();
+  await other.keyboard.press('Shift+F');
+  await expect(other.getByText('Saved (revision 2).', { exact: true })).toBeVisible({ timeout: SLOW });
+
+  // The first tab still shows revision 1; its edit is not written over the other one.
+  await tokens(page).focus();
+  await page.keyboard.press('Shift+S');
+  const prompt = page.getByRole('dialog', { name: 'This utterance was changed in another tab or window' });
+  await expect(prompt).toBeVisible({ timeout: SLOW });
+  expect((await layersRead(page, [id ?? 0]))[id ?? 0]).toEqual({ status: 'flagged', revision: 2 });
+  await prompt.getByRole('button', { name: 'Apply my change on top' }).click();
+  await expect(page.getByText('Saved (revision 3).', { exact: true })).toBeVisible({ timeout: SLOW });
+  expect((await layersRead(page, [id ?? 0]))[id ?? 0]).toEqual({ status: 'skipped', revision: 3 });
+  // Both versions can be recovered: the other tab's (revision 2, flagged) and this one's (revision 3).
+  const steps = await historyOf(page, id ?? 0);
+  expect(steps.map((h) => [h.before?.revision ?? 0, h.after.revision, h.after.status])).toEqual([
+    [1, 2, 'flagged'],
+    [2, 3, 'skipped'],
+  ]);
+});
