@@ -237,7 +237,7 @@ export async function corpusTableBench(options: CorpusTableBenchOptions): Promis
     const secondFilter = await filterTime(() => problems.uncheck());
     const slotFilter = await filterTime(() => page.getByLabel('Slot').selectOption({ index: 1 }).then(() => undefined));
     const textSort = await filterTime(() => page.getByRole('columnheader', { name: 'Text' }).getByRole('button').click());
-    console.log(`  filter on the open table: first ${ms(firstFilter).trim()} (index built after the first rows showed), then ${ms(secondFilter).trim()} (warm), a slot ${ms(slotFilter).trim()}, sort by text ${ms(textSort).trim()}`);
+    console.log(`  filter on the open table: first ${ms(firstFilter).trim()} (the worker loads or builds the index after the first rows showed), then ${ms(secondFilter).trim()} (warm), a slot ${ms(slotFilter).trim()}, sort by text ${ms(textSort).trim()}`);
     await firstRowsTime(page, base);
     await filterTime(() => problems.check());
     await filterTime(() => problems.uncheck());
