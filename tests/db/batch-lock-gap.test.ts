@@ -53,7 +53,7 @@ function gate() {
   return { open, opened, atGap, reached };
 }
 
-const settle = () => new Promise((resolve) => setTimeout(resolve, 20));
+const later = (ms: number) => new Promise<false>((resolve) => setTimeout(() => resolve(false), ms));
 
 function visits(count: number): Blob {
   let out = '';
@@ -61,7 +61,12 @@ function visits(count: number): Blob {
   return new Blob([out]);
 }
 
-async function gapRun(cleanupLocks: (locks: ReturnType<typeof lockManager>) => Parameters<typeof batchActiveByLocks>[0]) {
+/**
+ * `waitMs`: how long the cleanup may take while the gate is shut. A cleanup that waits for a lock
+ * never finishes in it; one that does not finishes as soon as it can, so a busy machine cannot flip
+ * the outcome (only a long wait would make the first case slow, never wrong).
+ */
+async function gapRun(cleanupLocks: (locks: ReturnType<typeof lockManager>) => Parameters<typeof batchActiveByLocks>[0], waitMs: number) {
   const db = dbTest();
   const projectId = (await projectCreate(db, { name: 'Repairs' })).id;
   const locks = lockManager();
@@ -81,17 +86,15 @@ async function gapRun(cleanupLocks: (locks: ReturnType<typeof lockManager>) => P
   const [batch] = await db.batches.where('state').equals('importing').toArray();
   expect(batch?.fileName).toBe('visits.iob2');
   expect(locks.held.has(batchLockName(batch?.id ?? -1))).toBe(false);
-  let cleanupDone = false;
-  const cleanup = batchesCleanUnfinished(db, { isActive: batchActiveByLocks(cleanupLocks(locks)) }).finally(() => (cleanupDone = true));
-  await settle();
-  const doneInGap = cleanupDone;
+  const cleanup = batchesCleanUnfinished(db, { isActive: batchActiveByLocks(cleanupLocks(locks)) });
+  const doneInGap = await Promise.race([cleanup.then(() => true as const), later(waitMs)]);
   g.open();
   return { db, importing, cleanup, doneInGap };
 }
 
 describe('import start and start-up cleanup', () => {
   it('a cleanup that runs while an import has its row but not yet its lock waits, then spares the import', async () => {
-    const { db, importing, cleanup, doneInGap } = await gapRun((locks) => locks);
+    const { db, importing, cleanup, doneInGap } = await gapRun((locks) => locks, 300);
     expect(doneInGap).toBe(false);
     expect((await cleanup).cleaned).toEqual([]);
     const summary = await importing;
@@ -101,7 +104,7 @@ describe('import start and start-up cleanup', () => {
   });
 
   it('without the begin lock (lock query only) the same cleanup rolls the live import back: the gap the begin lock closes', async () => {
-    const { db, importing, cleanup, doneInGap } = await gapRun((locks) => ({ query: locks.query }));
+    const { db, importing, cleanup, doneInGap } = await gapRun((locks) => ({ query: locks.query }), 30_000);
     expect(doneInGap).toBe(true);
     expect((await cleanup).cleaned.map((c) => c.batch.fileName)).toEqual(['visits.iob2']);
     await expect(importing).rejects.toBeInstanceOf(BatchStateError);
