@@ -11,6 +11,8 @@ import { corpusGenerate } from '../scripts/corpus/generate';
 import { cliBuild } from '../scripts/build-cli.mjs';
 import { agreeBench } from './agree';
 import { browserBench } from './browser';
+import { corpusTableBench } from './browser/corpus-table';
+import { crfBench } from './crf';
 import { measureInterleaved, runCapture } from './measure';
 
 const root = fileURLToPath(new URL('..', import.meta.url));
@@ -50,12 +52,22 @@ function row(label: string, seconds: number, rssMb: number | null, extra = ''): 
   return `  ${label.padEnd(34)} ${seconds.toFixed(3).padStart(8)} s ${rss} ${extra}`;
 }
 
-const only = process.env.BENCH_ONLY; // 'agree' | 'browser': run one part only
+const only = process.env.BENCH_ONLY; // 'agree' | 'browser' | 'table' | 'crf': run one part only
 
 async function main(): Promise<void> {
   if (only === 'browser') {
     mkdirSync(out, { recursive: true });
     await browserBench({ root, out, count, seed });
+    return;
+  }
+  if (only === 'table') {
+    mkdirSync(out, { recursive: true });
+    await corpusTableBench({ root, out, count, seed });
+    return;
+  }
+  if (only === 'crf') {
+    mkdirSync(out, { recursive: true });
+    await crfBench({ out, seed });
     return;
   }
   await cliBuild();
@@ -111,6 +123,8 @@ async function main(): Promise<void> {
 
   agreeBench({ root, out, count, repeats, seed });
   await browserBench({ root, out, count, seed });
+  await corpusTableBench({ root, out, count, seed });
+  await crfBench({ out, seed });
 }
 
 await main();
