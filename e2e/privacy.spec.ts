@@ -89,7 +89,9 @@ test('the built scripts and styles name no other host, apart from known harmless
   expect(files.length).toBeGreaterThan(0);
   const unexplained: string[] = [];
   const seen = new Set<string>();
-  for (const file of [...files.map((f) => join(dir, f)), join(outDir(), 'index.html')]) {
+  // The service worker and the manifest sit beside index.html, outside assets/.
+  const top = ['index.html', 'sw.js', 'manifest.webmanifest'].map((f) => join(outDir(), f));
+  for (const file of [...files.map((f) => join(dir, f)), ...top]) {
     const text = readFileSync(file, 'utf8');
     for (const match of text.matchAll(/\bhttps?:\/\/[^\s"'`)\\<>]+/g)) {
       const url = match[0].replace(/[.,;]+$/, '');
