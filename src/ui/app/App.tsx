@@ -13,6 +13,7 @@ const VIEW_LABELS: Record<Exclude<View, 'projects'>, string> = {
   agreement: 'Agreement',
   resolve: 'Resolve',
   rules: 'Rule review',
+  model: 'Model',
   schema: 'Slots and intents',
   import: 'Bring in data',
   export: 'Write out data',

@@ -5,6 +5,7 @@ import { ExportView } from '../features/export/ExportView';
 import { demoLoad } from '../features/import/demo-load';
 import { ImportView } from '../features/import/ImportView';
 import { LabelView } from '../features/label/LabelView';
+import { ModelView } from '../features/model/ModelView';
 import { OverviewView } from '../features/overview/OverviewView';
 import { ProfileBadge } from '../features/profile/ProfileBadge';
 import { ProfileChooser } from '../features/profile/ProfileChooser';
@@ -28,6 +29,7 @@ export const projectViews: {
   agreement: ComponentType<ProjectViewProps>;
   resolve: ComponentType<ProjectViewProps>;
   rules: ComponentType<ProjectViewProps>;
+  model: ComponentType<ProjectViewProps>;
   schema: ComponentType<ProjectViewProps>;
   import: ComponentType<ProjectViewProps>;
   export: ComponentType<ProjectViewProps>;
@@ -48,6 +50,7 @@ export const projectViews: {
   agreement: AgreementView,
   resolve: ResolveView,
   rules: RulesView,
+  model: ModelView,
   schema: SchemaView,
   import: ImportView,
   export: ExportView,
