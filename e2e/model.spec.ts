@@ -59,6 +59,15 @@ test('train with cross-validation, read the per-slot table, pre-label the unlabe
   await demoModel(page);
   await expect(page.getByRole('button', { name: 'Pre-label unlabelled utterances' })).toBeDisabled();
 
+  // Cancel stops the run in its worker: nothing is saved, the form is back.
+  await page.getByLabel('Iterations').fill('500');
+  await page.getByRole('button', { name: 'Train the model' }).click();
+  await expect(page.getByText(/Cross-validating, fold 1 of 5: iteration \d+ of at most 500/)).toBeVisible({ timeout: SLOW });
+  await expect(page.getByRole('progressbar', { name: 'Training progress' })).toBeVisible();
+  await page.getByRole('button', { name: 'Cancel training' }).click();
+  await expect(page.getByRole('button', { name: 'Train the model' })).toBeEnabled();
+  await expect(page.getByText('No model is saved in this project yet.')).toBeVisible();
+
   await page.getByLabel('Iterations').fill('5');
   await page.getByLabel('Folds for cross-validation').fill('2');
   await page.getByRole('button', { name: 'Train the model' }).click();
