@@ -32,9 +32,12 @@ export function variationFind(utterances: readonly LabelledUtterance[], options:
   const flat = corpusFlatten(utterances);
   const findings: VariationFinding[] = [];
   let level = levelFirst(flat);
+  let nearVariation: Uint8Array = new Uint8Array(0);
   for (let n = 1; n <= maxLength && level.positions.length > 0; n++) {
-    const counts = levelFindings(flat, utterances, level, n, n === maxLength, findings);
-    if (n < maxLength) level = levelExtend(flat, level, counts, n);
+    const { counts, varies } = levelFindings(flat, utterances, level, n, n === maxLength, findings);
+    if (n === maxLength) break;
+    if (n === 1) nearVariation = positionsNearVariation(flat, varies, maxLength);
+    level = levelExtend(flat, level, counts, nearVariation, n);
   }
   return findings.sort(variationCompare);
 }
@@ -61,7 +64,7 @@ function levelFirst(flat: FlatCorpus): Level {
   return { positions, grams: flat.words.slice(), sequences: flat.tags.slice(), gramCount: flat.wordNames.size };
 }
 
-/** Count each n-gram and find those whose tag sequences differ; returns the counts for pruning. */
+/** Count each n-gram and find those whose tag sequences differ; returns both for pruning. */
 function levelFindings(
   flat: FlatCorpus,
   utterances: readonly LabelledUtterance[],
@@ -69,7 +72,7 @@ function levelFindings(
   n: number,
   isLast: boolean,
   out: VariationFinding[],
-): Int32Array {
+): { counts: Int32Array; varies: Uint8Array } {
   const { positions, grams, sequences, gramCount } = level;
   const counts = new Int32Array(gramCount);
   const firstSequence = new Int32Array(gramCount).fill(-1);
@@ -95,7 +98,7 @@ function levelFindings(
     if (!isLast && neighboursShared(flat, starts, n)) continue;
     out.push(variationBuild(flat, utterances, level, occurrences, n));
   }
-  return counts;
+  return { counts, varies };
 }
 
 /** True when every occurrence has the same word just before it, or the same word just after it. */
@@ -170,27 +173,52 @@ function variationBuild(
   };
 }
 
-/** The (n+1)-grams starting where a recurring n-gram starts and the utterance goes on. */
-function levelExtend(flat: FlatCorpus, level: Level, counts: Int32Array, n: number): Level {
-  const gramPairs = new PairInterner(Math.max(1, flat.wordNames.size));
-  const sequencePairs = new PairInterner(Math.max(1, flat.tagNames.size));
-  const kept: number[] = [];
-  const grams: number[] = [];
-  const sequences: number[] = [];
-  for (let k = 0; k < level.positions.length; k++) {
-    const g = level.grams[k] ?? 0;
-    if ((counts[g] ?? 0) < 2) continue;
-    const p = level.positions[k] ?? 0;
-    const next = p + n;
-    if (next >= (flat.starts[(flat.owners[p] ?? 0) + 1] ?? 0)) continue;
-    kept.push(p);
-    grams.push(gramPairs.id(g, flat.words[next] ?? 0));
-    sequences.push(sequencePairs.id(level.sequences[k] ?? 0, flat.tags[next] ?? 0));
+/**
+ * Positions with a word that varies somewhere (its unigram has several tags) less than maxLength
+ * tokens ahead in the same utterance. An n-gram can only vary on a column whose word varies, so
+ * n-grams starting elsewhere are never reported; every occurrence of an n-gram that contains such a
+ * word is kept, so the counts and readings of reportable n-grams stay exact.
+ */
+function positionsNearVariation(flat: FlatCorpus, wordVaries: Uint8Array, maxLength: number): Uint8Array {
+  const near = new Uint8Array(flat.words.length);
+  for (let u = 0; u + 1 < flat.starts.length; u++) {
+    const start = flat.starts[u] ?? 0;
+    let nextVarying = Number.POSITIVE_INFINITY;
+    for (let p = (flat.starts[u + 1] ?? 0) - 1; p >= start; p--) {
+      if (wordVaries[flat.words[p] ?? 0] === 1) nextVarying = p;
+      if (nextVarying - p < maxLength) near[p] = 1;
+    }
   }
-  return {
-    positions: Int32Array.from(kept),
-    grams: Int32Array.from(grams),
-    sequences: Int32Array.from(sequences),
-    gramCount: gramPairs.size,
-  };
+  return near;
+}
+
+/** The (n+1)-grams starting where a recurring n-gram starts, near a varying word, with room left. */
+function levelExtend(flat: FlatCorpus, level: Level, counts: Int32Array, nearVariation: Uint8Array, n: number): Level {
+  const { starts, owners, words, tags } = flat;
+  const { positions: from, grams: fromGrams, sequences: fromSequences } = level;
+  const size = from.length;
+  const keep = new Uint8Array(size);
+  let kept = 0;
+  for (let k = 0; k < size; k++) {
+    const p = from[k] ?? 0;
+    if (nearVariation[p] !== 1 || (counts[fromGrams[k] ?? 0] ?? 0) < 2) continue;
+    if (p + n >= (starts[(owners[p] ?? 0) + 1] ?? 0)) continue;
+    keep[k] = 1;
+    kept++;
+  }
+  const gramPairs = new PairInterner(kept);
+  const sequencePairs = new PairInterner(kept);
+  const positions = new Int32Array(kept);
+  const grams = new Int32Array(kept);
+  const sequences = new Int32Array(kept);
+  let j = 0;
+  for (let k = 0; k < size; k++) {
+    if (keep[k] !== 1) continue;
+    const p = from[k] ?? 0;
+    positions[j] = p;
+    grams[j] = gramPairs.id(fromGrams[k] ?? 0, words[p + n] ?? 0);
+    sequences[j] = sequencePairs.id(fromSequences[k] ?? 0, tags[p + n] ?? 0);
+    j++;
+  }
+  return { positions, grams, sequences, gramCount: gramPairs.size };
 }
