@@ -113,16 +113,25 @@ export function LabelScreen({ projectId, profile }: { projectId: number; profile
   });
   const pick = useCallback((slot: string) => labelWithLatest.current(slot), []);
 
-  async function step(to: 'next' | 'previous' | 'nextUnlabelled') {
-    if (!utterance) return;
-    const next =
-      to === 'nextUnlabelled' ? await labelNextUnlabelled(db, projectId, layerName, utterance.seq) : await labelUtteranceStep(db, projectId, utterance.seq, to === 'next' ? 1 : -1);
-    if (next === undefined) {
-      setSaid(to === 'nextUnlabelled' ? 'Every utterance has been started in this layer.' : to === 'next' ? 'This is the last utterance.' : 'This is the first utterance.');
-      return;
-    }
-    setSaid('');
-    goTo(next.id);
+  // Steps run one after another and start from the utterance in the URL, not the one on screen:
+  // keys pressed while the next utterance is still loading must count from where the last step went.
+  const stepping = useRef<Promise<void>>(Promise.resolve());
+  function step(to: 'next' | 'previous' | 'nextUnlabelled'): Promise<void> {
+    if (!utterance) return Promise.resolve();
+    const run = async () => {
+      const current = Number(useNav.getState().query.u);
+      const from = Number.isSafeInteger(current) ? ((await db.utterances.get(current)) ?? utterance) : utterance;
+      const next =
+        to === 'nextUnlabelled' ? await labelNextUnlabelled(db, projectId, layerName, from.seq) : await labelUtteranceStep(db, projectId, from.seq, to === 'next' ? 1 : -1);
+      if (next === undefined) {
+        setSaid(to === 'nextUnlabelled' ? 'Every utterance has been started in this layer.' : to === 'next' ? 'This is the last utterance.' : 'This is the first utterance.');
+        return;
+      }
+      setSaid('');
+      goTo(next.id);
+    };
+    stepping.current = stepping.current.then(run, run);
+    return stepping.current;
   }
 
   function run(command: LabelCommand) {
