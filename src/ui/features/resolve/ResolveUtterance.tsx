@@ -1,5 +1,5 @@
 import { useLiveQuery } from 'dexie-react-hooks';
-import { useEffect, useRef, useState } from 'react';
+import { useEffect, useLayoutEffect, useRef, useState } from 'react';
 import { goldTags, type Side } from '../../../core/adjudication';
 import { ANNOTATOR_GOLD } from '../../../core/backup/model';
 import { layerSave, RevisionConflictError, tokensUnpack, type LayerRow, type ProjectRow } from '../../../db';
@@ -90,7 +90,9 @@ export function ResolveUtterance({ projectId, project, utteranceId, a, b, who, e
       setFocus(next);
       return;
     }
-    const seq = data?.utterance?.seq ?? null;
+    // Still loading this utterance: stepping from nowhere would jump to the first or last one.
+    const seq = data?.utterance?.seq;
+    if (seq === undefined) return;
     const found = await disagreementStep(db, projectId, a, b, seq, direction);
     if (found === undefined) setMessage({ text: direction === 1 ? 'That was the last disagreement.' : 'That was the first disagreement.', error: false });
     else onOpen(found.utteranceId, direction === 1 ? 'first' : 'last');
@@ -108,7 +110,8 @@ export function ResolveUtterance({ projectId, project, utteranceId, a, b, who, e
   function command(c: ResolveCommand) {
     if (c.kind === 'step') void step(c.direction);
     else if (c.kind === 'nextOpenUtterance') {
-      void disagreementStep(db, projectId, a, b, data?.utterance?.seq ?? null, 1, { unresolvedOnly: true }).then((found) => {
+      if (data?.utterance === undefined || data.utterance === null) return;
+      void disagreementStep(db, projectId, a, b, data.utterance.seq, 1, { unresolvedOnly: true }).then((found) => {
         if (found === undefined) setMessage({ text: 'No unresolved utterance after this one.', error: false });
         else onOpen(found.utteranceId, 'first');
       });
@@ -120,7 +123,8 @@ export function ResolveUtterance({ projectId, project, utteranceId, a, b, who, e
 
   // Keys are heard on the whole window; the listener always calls this render's handler.
   const commandLatest = useRef(command);
-  useEffect(() => {
+  // Before paint, not after: a key pressed as soon as this utterance shows must see its data.
+  useLayoutEffect(() => {
     commandLatest.current = command;
   });
   useEffect(() => {
