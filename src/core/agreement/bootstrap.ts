@@ -84,45 +84,96 @@ function rowsByColumn(rows: UtteranceRows, width: number): { start: Int32Array; 
   return { start, pattern: columnPattern, value: columnValue };
 }
 
+/** Resamples summed together: each sparse entry is read once per lane group instead of once per resample. */
+const LANES = 8;
+
+/**
+ * One resample's draws: `count` calls of mulberry32 from `state`, counted per row into `weights`
+ * (zeroed first). Returns the state after the last call.
+ */
+function drawsCount(patternOf: Int32Array, weights: Int32Array, state: number): number {
+  const count = patternOf.length;
+  weights.fill(0);
+  let s = state;
+  for (let i = 0; i < count; i++) {
+    // mulberry32 inlined (the same steps as `mulberry32` above: this loop runs count × resamples times).
+    s = (s + MULBERRY_STEP) | 0;
+    let t = s;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    // Non-negative and below count < 2^31, so `| 0` is the floor `mulberry32` takes.
+    const k = ((((t ^ (t >>> 14)) >>> 0) * count) / 4294967296) | 0;
+    weights[patternOf[k] as number]! += 1;
+  }
+  return s;
+}
+
+/**
+ * Totals of up to LANES resamples at once: `laned[p·LANES + i]` is row p's weight in resample i;
+ * lane i's totals go to `totals[i·width + k]`. Eight accumulators in registers make the pass over
+ * the entries (the bootstrap's main cost) about one load per entry and lane.
+ */
+function totalsLaned(columns: { start: Int32Array; pattern: Int32Array; value: Int32Array }, laned: Int32Array, width: number, totals: Float64Array): void {
+  const { start, pattern, value } = columns;
+  for (let k = 0; k < width; k++) {
+    let s0 = 0, s1 = 0, s2 = 0, s3 = 0, s4 = 0, s5 = 0, s6 = 0, s7 = 0;
+    const end = start[k + 1] as number;
+    for (let j = start[k] as number; j < end; j++) {
+      const base = (pattern[j] as number) * LANES;
+      const v = value[j] as number;
+      s0 += v * (laned[base] as number);
+      s1 += v * (laned[base + 1] as number);
+      s2 += v * (laned[base + 2] as number);
+      s3 += v * (laned[base + 3] as number);
+      s4 += v * (laned[base + 4] as number);
+      s5 += v * (laned[base + 5] as number);
+      s6 += v * (laned[base + 6] as number);
+      s7 += v * (laned[base + 7] as number);
+    }
+    totals[k] = s0;
+    totals[width + k] = s1;
+    totals[2 * width + k] = s2;
+    totals[3 * width + k] = s3;
+    totals[4 * width + k] = s4;
+    totals[5 * width + k] = s5;
+    totals[6 * width + k] = s6;
+    totals[7 * width + k] = s7;
+  }
+}
+
 /**
  * Resamples [from, to) of the bootstrap stream for `seed`. Resample r makes `count` draws of
  * mulberry32(seed) starting at call r·count; mulberry32's state only advances by a constant, so any
  * range starts straight at its own state, and ranges computed apart (e.g. in workers) join into
  * exactly the values of one pass. A resample draws utterances into multiplicities w_p of their rows,
  * then the totals are Σ w_p · row_p over the distinct sparse rows: O(utterances + entries), never O(tokens).
+ * Totals are integer sums below 2^53, exact in any order, so summing LANES resamples side by side
+ * (and by column) gives exactly the one-at-a-time values.
  */
 export function bootstrapRange(rows: UtteranceRows, layout: TotalsLayout, seed: number, from: number, to: number): ResampleValues {
   const { patternOf } = rows;
   const count = patternOf.length;
-  const weights = new Int32Array(rows.rowStart.length - 1);
+  const patterns = rows.rowStart.length - 1;
+  const weights = new Int32Array(patterns);
+  const laned = new Int32Array(patterns * LANES);
   const width = layout.width;
-  const totals = new Float64Array(width);
+  const totals = new Float64Array(width * LANES);
   const columns = rowsByColumn(rows, width);
   const values = {} as ResampleValues;
   for (const name of FIGURE_NAMES) values[name] = new Float64Array(Math.max(0, to - from));
   // State before call k is seed + k·step (mod 2^32); Math.imul keeps the product exact mod 2^32.
   let state = ((seed >>> 0) + Math.imul(from, Math.imul(count, MULBERRY_STEP))) | 0;
-  for (let r = from; r < to; r++) {
-    weights.fill(0);
-    for (let i = 0; i < count; i++) {
-      // mulberry32 inlined (the same steps as `mulberry32` above: this loop runs count × resamples times).
-      state = (state + MULBERRY_STEP) | 0;
-      let t = state;
-      t = Math.imul(t ^ (t >>> 15), t | 1);
-      t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-      // Non-negative and below count < 2^31, so `| 0` is the floor `mulberry32` takes.
-      const k = ((((t ^ (t >>> 14)) >>> 0) * count) / 4294967296) | 0;
-      weights[patternOf[k] as number]! += 1;
+  for (let r0 = from; r0 < to; r0 += LANES) {
+    const lanes = Math.min(LANES, to - r0);
+    for (let i = 0; i < lanes; i++) {
+      state = drawsCount(patternOf, weights, state);
+      for (let p = 0; p < patterns; p++) laned[p * LANES + i] = weights[p] as number;
     }
-    // Integer sums below 2^53 are exact in any order, so by column gives the row-wise totals.
-    for (let k = 0; k < width; k++) {
-      let sum = 0;
-      const end = columns.start[k + 1] as number;
-      for (let j = columns.start[k] as number; j < end; j++) sum += (weights[columns.pattern[j] as number] as number) * (columns.value[j] as number);
-      totals[k] = sum;
+    totalsLaned(columns, laned, width, totals);
+    for (let i = 0; i < lanes; i++) {
+      const figures = pairFiguresFromTotals(totals.subarray(i * width, (i + 1) * width), layout);
+      for (const name of FIGURE_NAMES) values[name][r0 + i - from] = figureValue(figures, name) ?? Number.NaN;
     }
-    const figures = pairFiguresFromTotals(totals, layout);
-    for (const name of FIGURE_NAMES) values[name][r - from] = figureValue(figures, name) ?? Number.NaN;
   }
   return values;
 }
