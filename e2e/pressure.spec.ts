@@ -1,7 +1,7 @@
 /**
  * Storage pressure: with the origin's quota squeezed to almost nothing, an edit on the label screen,
- * an import and a restore each fail with the clear "no room left" message and leave the database as
- * it was. Writes fail the way IndexedDB reports a full disk: put/add throw a DOMException named
+ * an import and a restore each fail with the clear "no room left" message, announced as an alert that
+ * says what to do (free space, save a backup) without taking the focus, and leave the database as it was. Writes fail the way IndexedDB reports a full disk: put/add throw a DOMException named
  * QuotaExceededError (IndexedDB 3.0, "store a record into an object store"). In the page an init
  * script patches IDBObjectStore; the import and restore workers get the same patch prepended to their
  * script (the service worker is blocked so every script comes through the route), failing after N
@@ -18,6 +18,16 @@ import { watchOrigins } from './helpers';
 
 const SLOW = 60_000;
 const NO_ROOM = /no room left for Slotsmith data/;
+/** What the user can do, as the alert says it (src/db/errors.ts StorageFullError). */
+const WHAT_TO_DO = /Free some disk space or delete projects you no longer need, save a backup of your projects .* then try again\./;
+
+/** The failure is announced as an alert (assertive) with the reason and what to do, and the focus stays where it was. */
+async function noRoomAlerted(page: Page): Promise<void> {
+  const alert = page.getByRole('alert').filter({ hasText: NO_ROOM });
+  await expect(alert).toHaveCount(1, { timeout: SLOW });
+  await expect(alert).toContainText(WHAT_TO_DO);
+  await expect(alert).toContainText('Nothing from this change was saved');
+}
 
 /** Every row of every store, as JSON text (typed arrays as lists), to compare before and after. */
 function databaseDump(page: Page): Promise<string> {
@@ -106,7 +116,15 @@ test('a full disk during a label edit: a clear message, nothing changed, the edi
   await tokens.focus();
   await page.keyboard.press('Shift+F');
   await expect(page.getByText(/^Not saved: .*no room left for Slotsmith data/)).toBeVisible({ timeout: SLOW });
+  await noRoomAlerted(page);
+  // The alert does not take the focus: the labeller's keys still go to the tokens.
+  await expect(tokens).toBeFocused();
   expect(await databaseDump(page)).toBe(before);
+  // A second failed save is counted in the same alert, not stacked.
+  await page.keyboard.press('Shift+F');
+  await expect(page.getByRole('alert').filter({ hasText: NO_ROOM })).toContainText('(2 saves failed.)', { timeout: SLOW });
+  await page.getByRole('alert').getByRole('button', { name: 'Dismiss' }).click();
+  await expect(page.getByRole('alert').filter({ hasText: NO_ROOM })).toHaveCount(0);
 
   await page.reload();
   await expect(tokens).toBeVisible({ timeout: SLOW });
@@ -133,7 +151,7 @@ test('a full disk during an import: a clear message, nothing stored', async ({ p
   const before = await databaseDump(page);
 
   await page.getByRole('button', { name: 'Import' }).click();
-  await expect(page.getByText(NO_ROOM).first()).toBeVisible({ timeout: SLOW });
+  await noRoomAlerted(page);
   await page.reload();
   await expect(page.getByText('This project holds 0 utterances')).toBeVisible({ timeout: SLOW });
   // The failed batch may stay listed as failed; no utterance or layer is left behind.
@@ -157,7 +175,7 @@ test('a full disk during a restore: a clear message, no project made', async ({ 
   const before = await databaseDump(page);
 
   await page.getByLabel('Restore from a backup file').setInputFiles(file);
-  await expect(page.getByText(NO_ROOM).first()).toBeVisible({ timeout: SLOW });
+  await noRoomAlerted(page);
   await page.reload();
   expect(await databaseDump(page)).toBe(before);
   await page.getByRole('button', { name: 'All projects' }).click();

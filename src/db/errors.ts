@@ -1,13 +1,14 @@
 /** Typed errors of the storage layer, and the one write helper that maps browser storage errors to them. */
 import type { Table } from 'dexie';
 import type { LayerKey, LayerRow, SlotsmithDb } from './schema';
+import { storageFullAnnounce } from './storage-full';
 
 export class StorageFullError extends Error {
   override name = 'StorageFullError';
   constructor(cause: unknown) {
     super(
-      'The browser has no room left for Slotsmith data (disk full or storage quota reached). Nothing from this change was saved. ' +
-        'Free some disk space or delete projects you no longer need, then try again.',
+      'The browser has no room left for Slotsmith data (disk full or storage quota reached). Nothing from this change was saved; what was stored before is unchanged. ' +
+        'Free some disk space or delete projects you no longer need, save a backup of your projects (Project settings, “Save a backup of this project”) to a disk with room, then try again.',
       { cause },
     );
   }
@@ -62,8 +63,12 @@ export function storageErrorIsQuota(error: unknown, depth = 0): boolean {
   return failures.some((f) => storageErrorIsQuota(f, depth + 1));
 }
 
+/** Quota errors become StorageFullError and are announced (see storage-full.ts); others pass unchanged. */
 export function storageErrorMap(error: unknown): unknown {
-  return storageErrorIsQuota(error) ? new StorageFullError(error) : error;
+  if (!storageErrorIsQuota(error)) return error;
+  const full = error instanceof StorageFullError ? error : new StorageFullError(error);
+  storageFullAnnounce(full);
+  return full;
 }
 
 /**

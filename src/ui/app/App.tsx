@@ -3,6 +3,7 @@ import { batchActiveByLocks, batchesCleanUnfinished, storageStatus } from '../..
 import { PRODUCT_NAME } from '../../core/version';
 import { useNav, type View } from '../../state/nav';
 import { ProjectsView } from '../features/projects/ProjectsView';
+import { StorageFullAlert } from '../components/StorageFullAlert';
 import { appDb } from './db';
 import { projectViews } from './project-views';
 
@@ -85,6 +86,7 @@ export function App() {
           {notice}
         </p>
       )}
+      <StorageFullAlert />
       <main className="shell-main">{screen}</main>
     </div>
   );
