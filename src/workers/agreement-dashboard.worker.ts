@@ -1,5 +1,6 @@
 /** The agreement and overview computations off the page's thread, over the worker's own database connection. */
 import * as Comlink from 'comlink';
+import { agreementCacheOpen, type AgreementCache } from '../db/agreement-cache';
 import { dbOpen, type SlotsmithDb } from '../db/schema';
 import type { AgreementBootstrapApi } from './agreement-bootstrap.worker';
 import { bootstrapParallel, type BootstrapHelper } from './agreement-parallel';
@@ -9,6 +10,7 @@ import { overviewRun, type OverviewRequest, type OverviewResult } from './agreem
 import { workerCrashed } from './worker-job';
 
 let db: SlotsmithDb | undefined;
+let cache: AgreementCache<AgreementResult> | undefined;
 
 /** One helper per further core, up to three: the page's own thread stays free, as it waits on us. */
 function helpersStart(): BootstrapHelper[] {
@@ -32,11 +34,15 @@ function helpersStart(): BootstrapHelper[] {
 
 const api = {
   /** Callbacks arrive as Comlink proxies; their calls are not awaited, so the page never slows the run. */
-  agreement(request: AgreementRequest, onProgress: (p: AgreementProgress) => void, onPoint?: (early: AgreementResult) => void): Promise<AgreementOutcome> {
+  /** `fresh`: compute even when figures for unchanged layers are kept ("Compute again"). */
+  agreement(request: AgreementRequest, onProgress: (p: AgreementProgress) => void, onPoint?: (early: AgreementResult) => void, fresh = false): Promise<AgreementOutcome> {
     db ??= dbOpen();
+    cache ??= agreementCacheOpen<AgreementResult>(indexedDB);
     return agreementRun(db, request, (p) => void onProgress(p), {
       ...(onPoint !== undefined && { onPoint: (early: AgreementResult) => void onPoint(early) }),
       bootstrap: bootstrapParallel(helpersStart),
+      cache,
+      fresh,
     });
   },
   overview(request: OverviewRequest, onProgress: (p: LayerScanProgress) => void): Promise<OverviewResult> {

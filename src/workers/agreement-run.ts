@@ -16,6 +16,8 @@ import {
   type ResampleValues,
 } from '../core/agreement';
 import type { LayerStatus } from '../core/backup/model';
+import type { AgreementCache } from '../db/agreement-cache';
+import { corpusIndexSignature } from '../db/corpus-index';
 import type { SlotsmithDb } from '../db/schema';
 import { gatheredAlign, LayerGathering, updatedByPosition } from './agreement-gather';
 import { layersScan } from './agreement-read';
@@ -64,6 +66,8 @@ export interface AgreementResult {
   timings: { readMs: number; pointMs: number; computeMs: number; totalMs: number; steps: Record<string, number> };
   /** True on the early result handed to `onPoint`: the intervals are still being resampled. */
   intervalsPending: boolean;
+  /** Set when the figures come from the cache: when they were computed (ms since the epoch); the layers have not changed since. */
+  keptFrom?: number;
 }
 
 export interface AgreementFailure {
@@ -120,6 +124,16 @@ export interface AgreementRunOptions {
   /** The figures without intervals, as soon as they are known (the intervals take longest). */
   onPoint?: (early: AgreementResult) => void;
   bootstrap?: BootstrapRunner;
+  /** Results kept from earlier runs on unchanged layers (see `agreementCacheOpen`). */
+  cache?: AgreementCache<AgreementResult>;
+  /** Compute even when the cache holds the figures ("Compute again"); the new result replaces them. */
+  fresh?: boolean;
+}
+
+/** One cache entry per choice that changes the figures. */
+function requestKey(request: AgreementRequest): string {
+  const { annotators, pair, statuses } = request;
+  return JSON.stringify([annotators, pair, [...statuses].sort(), request.bootstrap ?? 1000, request.seed ?? 1, request.disagreementLimit ?? 100]);
 }
 
 export async function agreementRun(
@@ -139,6 +153,17 @@ export async function agreementRun(
     stepAt = t;
   };
   const { projectId, annotators, statuses } = request;
+  const { cache } = options;
+  // Taken before reading: a change during the run leaves a signature the next visit will not match.
+  const signature = cache === undefined ? null : await corpusIndexSignature(db, projectId);
+  if (cache !== undefined && signature !== null && options.fresh !== true) {
+    const hit = await cache.load(projectId, requestKey(request), signature);
+    if (hit !== undefined) {
+      const ms = now() - started;
+      return { ...hit.result, timings: { readMs: ms, pointMs: ms, computeMs: 0, totalMs: ms, steps: { cache: ms } }, keptFrom: hit.saved };
+    }
+  }
+  step('cache');
   const sizes = await Promise.all(
     annotators.map(async (a) => {
       let n = 0;
@@ -182,10 +207,16 @@ export async function agreementRun(
       intervalsPending,
     };
   };
-  if (job === null) return result(pending.report, false);
+  if (job === null) {
+    const final = result(pending.report, false);
+    if (cache !== undefined && signature !== null) await cache.save(projectId, requestKey(request), signature, final);
+    return final;
+  }
   options.onPoint?.(result(structuredClone(pending.report), true));
   const bootstrap = options.bootstrap ?? bootstrapHere;
   const values = await bootstrap(job, (done) => onProgress({ phase: 'intervals', done, total: job.resamples }));
   step('bootstrap');
-  return result(agreementIntervalsAdd(pending, values), false);
+  const final = result(agreementIntervalsAdd(pending, values), false);
+  if (cache !== undefined && signature !== null) await cache.save(projectId, requestKey(request), signature, final);
+  return final;
 }

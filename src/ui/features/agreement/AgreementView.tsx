@@ -32,13 +32,16 @@ const Dashboard = memo(function Dashboard({ result, projectId }: { result: Agree
   const names = report.pairNames;
   return (
     <>
-      <p data-testid="agreement-compared" data-pending={String(result.intervalsPending)} data-worker-ms={result.timings.totalMs.toFixed(1)} data-read-ms={result.timings.readMs.toFixed(1)} data-compute-ms={result.timings.computeMs.toFixed(1)}
+      <p data-testid="agreement-compared" data-pending={String(result.intervalsPending)} data-worker-ms={result.timings.totalMs.toFixed(1)} data-read-ms={result.timings.readMs.toFixed(1)} data-compute-ms={result.timings.computeMs.toFixed(1)} data-kept={String(result.keptFrom !== undefined)}
         data-steps={Object.entries(result.timings.steps)
           .map(([name, ms]) => `${name} ${ms.toFixed(0)} ms`)
           .join(', ')}
       >
         Compared {countText(report.utterances)} utterances ({countText(report.tokens)} tokens) that both {names[0]} and {names[1]} hold. Counted layers with status{' '}
-        {listText(result.statuses)}: {result.counted.map((c) => `${c.annotator} ${countText(c.layers)}`).join(', ')}. Computed in {(result.timings.totalMs / 1000).toFixed(2)} s.
+        {listText(result.statuses)}: {result.counted.map((c) => `${c.annotator} ${countText(c.layers)}`).join(', ')}.{' '}
+        {result.keptFrom === undefined
+          ? `Computed in ${(result.timings.totalMs / 1000).toFixed(2)} s.`
+          : `Kept from ${new Date(result.keptFrom).toLocaleString()}: no layer of this project has changed since, so the figures are the same.`}
       </p>
       <section aria-labelledby="agreement-figures-title">
         <h3 id="agreement-figures-title">Figures</h3>

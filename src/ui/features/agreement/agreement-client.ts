@@ -4,8 +4,11 @@ import type { AgreementWorkerApi } from '../../../workers/agreement-dashboard.wo
 import type { AgreementOutcome, AgreementProgress, AgreementRequest, AgreementResult } from '../../../workers/agreement-run';
 import { workerCrashed, workerJobStart, type WorkerJob } from '../../../workers/worker-job';
 
-/** `onPoint` receives the figures without intervals first; the result then adds the intervals. */
-export function agreementStart(request: AgreementRequest, onProgress: (p: AgreementProgress) => void, onPoint: (early: AgreementResult) => void): WorkerJob<AgreementOutcome> {
+/**
+ * `onPoint` receives the figures without intervals first; the result then adds the intervals.
+ * `fresh` computes even when the worker keeps figures for unchanged layers.
+ */
+export function agreementStart(request: AgreementRequest, onProgress: (p: AgreementProgress) => void, onPoint: (early: AgreementResult) => void, fresh = false): WorkerJob<AgreementOutcome> {
   const worker = new Worker(new URL('../../../workers/agreement-dashboard.worker.ts', import.meta.url), { type: 'module' });
   const api = Comlink.wrap<AgreementWorkerApi>(worker);
   const link = {
@@ -26,6 +29,7 @@ export function agreementStart(request: AgreementRequest, onProgress: (p: Agreem
         request,
         Comlink.proxy((progress: AgreementProgress) => message({ progress })),
         Comlink.proxy((early: AgreementResult) => message({ early })),
+        fresh,
       ) as Promise<AgreementOutcome>,
     (m) => ('early' in m ? onPoint(m.early) : onProgress(m.progress)),
     'The agreement computation',

@@ -22,6 +22,8 @@ export function useAgreementRun(request: AgreementRequest | null, stamp: string)
   const [early, setEarly] = useState<AgreementResult | null>(null);
   const [round, setRound] = useState(0);
   const job = useRef<WorkerJob<AgreementOutcome> | null>(null);
+  /** Set by `again`: that run computes even when the worker keeps figures for unchanged layers. */
+  const freshNext = useRef(false);
   const key = request === null ? '' : JSON.stringify(request);
   const stampNow = useRef(stamp);
   useEffect(() => {
@@ -30,11 +32,14 @@ export function useAgreementRun(request: AgreementRequest | null, stamp: string)
 
   useEffect(() => {
     if (key === '') return;
+    const fresh = freshNext.current;
+    freshNext.current = false;
     const started = agreementStart(
       JSON.parse(key) as AgreementRequest,
       (progress) => setState({ kind: 'running', progress }),
       // A transition: React renders the dashboard in slices that yield to the page, not in one long task.
       (figures) => startTransition(() => setEarly(figures)),
+      fresh,
     );
     job.current = started;
     const startStamp = stampNow.current;
@@ -60,6 +65,9 @@ export function useAgreementRun(request: AgreementRequest | null, stamp: string)
   }, [key, round]);
 
   const cancel = useCallback(() => job.current?.cancel(), []);
-  const again = useCallback(() => setRound((r) => r + 1), []);
+  const again = useCallback(() => {
+    freshNext.current = true;
+    setRound((r) => r + 1);
+  }, []);
   return { state, early, cancel, again };
 }
