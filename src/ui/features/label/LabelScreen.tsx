@@ -1,23 +1,29 @@
+import { useLiveQuery } from 'dexie-react-hooks';
 import { useCallback, useEffect, useMemo, useRef, useState, useSyncExternalStore } from 'react';
-import { ANNOTATOR_GOLD } from '../../../core/backup/model';
+import { ANNOTATOR_GOLD, ANNOTATOR_MODEL } from '../../../core/backup/model';
 import { selectionCaret, selectionClamp, selectionMove, selectionTarget, tagsNeedLegalising, type EditOp, type TokenSelection } from '../../../core/editing';
-import { labelNextUnlabelled, labelUtteranceStep } from '../../../db/label-nav';
+import { labelNextUncertain, labelNextUnlabelled, labelUncertainOrder, labelUtteranceStep } from '../../../db/label-nav';
 import type { LayerKey } from '../../../db/schema';
-import { tokensCount, tokensUnpack } from '../../../db/tokens';
+import { tokensCount } from '../../../db/tokens';
 import { useNav } from '../../../state/nav';
 import { useSession, type Profile } from '../../../state/session';
 import { appDb } from '../../app/db';
 import { ConflictPrompt } from './ConflictPrompt';
 import { HelpOverlay } from './HelpOverlay';
 import { LayerFields } from './LayerFields';
+import { OrderChoice } from './OrderChoice';
 import { OtherLayers } from './OtherLayers';
 import { SlotLegend } from './SlotLegend';
 import { SlotSearch } from './SlotSearch';
+import { SuggestionPanel } from './SuggestionPanel';
 import { TokenStrip } from './TokenStrip';
 import { labelEditorFor } from './label-editor';
 import { labelCommandFor, type LabelCommand } from './label-keys';
-import { spanText } from './label-text';
+import { selectedText } from './label-text';
+import { suggestionAtSelection } from './suggestions';
+import { useConflictUtterance } from './use-conflict-utterance';
 import { useLabelData } from './use-label-data';
+import { useSuggestions } from './use-suggestions';
 
 type Panel = 'none' | 'help' | 'slots';
 
@@ -28,7 +34,7 @@ function typingTarget(el: Element): boolean {
 /** The span editor for one person in one project. */
 export function LabelScreen({ projectId, profile }: { projectId: number; profile: Profile }) {
   const db = appDb();
-  const { query, go } = useNav();
+  const { query, go, queryReplace } = useNav();
   const blind = useSession((s) => s.blind);
   const blindSet = useSession((s) => s.blindSet);
   const adjudicator = profile.role === 'adjudicator';
@@ -58,6 +64,25 @@ export function LabelScreen({ projectId, profile }: { projectId: number; profile
   const key: LayerKey | null = utteranceId === null ? null : [utteranceId, layerName];
   const shown = view.key !== null && key !== null && view.key[0] === key[0] && view.key[1] === key[1] ? view.edit : null;
   const slots = useMemo(() => project?.schema.slots ?? [], [project]);
+  const modelRow = layers?.find((l) => l.annotator === ANNOTATOR_MODEL);
+  const suggested = useSuggestions({
+    dbName: db.name,
+    projectId,
+    layerName,
+    editor,
+    utterance: utterance ?? null,
+    tokens,
+    modelTags: modelRow?.tags,
+    ownTags: shown?.tags,
+    slots,
+    editable: view.conflict === null,
+    select: setSelection,
+    say: setSaid,
+  });
+  const list = suggested.suggestions;
+  // "Least sure first": the model's order, kept fresh by a live query that only model-layer writes wake.
+  const uncertain = query.order === 'uncertain';
+  const uncertainOrder = useLiveQuery(async () => (uncertain ? labelUncertainOrder(db, projectId) : null), [db, projectId, uncertain]);
 
   const goTo = useCallback((id: number) => go('label', projectId, { ...useNav.getState().query, u: String(id) }), [go, projectId]);
   useEffect(() => {
@@ -121,8 +146,12 @@ export function LabelScreen({ projectId, profile }: { projectId: number; profile
     const run = async () => {
       const current = Number(useNav.getState().query.u);
       const from = Number.isSafeInteger(current) ? ((await db.utterances.get(current)) ?? utterance) : utterance;
-      const next =
-        to === 'nextUnlabelled' ? await labelNextUnlabelled(db, projectId, layerName, from.seq) : await labelUtteranceStep(db, projectId, from.seq, to === 'next' ? 1 : -1);
+      const byUncertainty = to === 'nextUnlabelled' && useNav.getState().query.order === 'uncertain';
+      const next = byUncertainty
+        ? await labelNextUncertain(db, projectId, layerName, uncertainOrder ?? (await labelUncertainOrder(db, projectId)), from)
+        : to === 'nextUnlabelled'
+          ? await labelNextUnlabelled(db, projectId, layerName, from.seq)
+          : await labelUtteranceStep(db, projectId, from.seq, to === 'next' ? 1 : -1);
       if (next === undefined) {
         setSaid(to === 'nextUnlabelled' ? 'Every utterance has been started in this layer.' : to === 'next' ? 'This is the last utterance.' : 'This is the first utterance.');
         return;
@@ -133,6 +162,8 @@ export function LabelScreen({ projectId, profile }: { projectId: number; profile
     stepping.current = stepping.current.then(run, run);
     return stepping.current;
   }
+
+  const orderChange = useCallback((next: boolean) => queryReplace({ ...useNav.getState().query, order: next ? 'uncertain' : '' }), [queryReplace]);
 
   function run(command: LabelCommand) {
     const length = tokens.length;
@@ -175,6 +206,14 @@ export function LabelScreen({ projectId, profile }: { projectId: number; profile
       case 'noteFocus':
         noteRef.current?.focus();
         break;
+      case 'suggestion': {
+        const one = command.all ? null : suggestionAtSelection(list, selection, length);
+        const chosen = command.all ? list : one === null ? [] : [one];
+        if (chosen.length === 0) setSaid('No model suggestion to act on here.');
+        else if (command.act === 'accept') suggested.accept(chosen);
+        else suggested.reject(chosen);
+        break;
+      }
       case 'undo':
         editor.undo();
         break;
@@ -271,9 +310,10 @@ export function LabelScreen({ projectId, profile }: { projectId: number; profile
           </label>
         )}
         <label>
-          <input type="checkbox" checked={blind} onChange={(e) => blindSet(e.target.checked)} /> Blind labelling (hide other layers)
+          <input type="checkbox" checked={blind} onChange={(e) => blindSet(e.target.checked)} /> Blind labelling (hide other layers; model suggestions still show)
         </label>
       </div>
+      <OrderChoice uncertain={uncertain} scored={uncertainOrder?.ids.length} onChange={orderChange} />
 
       {view.newer !== null && shown !== null && (
         <p role="status" className="label-notice">
@@ -301,7 +341,23 @@ export function LabelScreen({ projectId, profile }: { projectId: number; profile
             onSelect={setSelection}
             label={`Tokens of the utterance. Selected: ${selectedText(utterance.text, tokens, selection)}`}
             idPrefix="label"
+            suggestions={list}
           />
+          {suggested.offered && (
+            <SuggestionPanel
+              suggestions={list}
+              hidden={suggested.hidden}
+              text={utterance.text}
+              tokens={tokens}
+              blind={blind}
+              disabled={view.conflict !== null}
+              onAccept={suggested.acceptOne}
+              onReject={suggested.rejectOne}
+              onAcceptAll={suggested.acceptAll}
+              onRejectAll={suggested.rejectAll}
+              onRestore={suggested.restore}
+            />
+          )}
           <SlotLegend slots={slots} onPick={pick} disabled={view.conflict !== null} />
           <LayerFields ref={intentRef} noteRef={noteRef} edit={shown} layerId={`${utterance.id}|${layerName}`} intents={intents} onEdit={edit} />
           <OtherLayers layers={others} blind={blind} text={utterance.text} tokens={tokens} slots={slots} />
@@ -336,25 +392,4 @@ export function LabelScreen({ projectId, profile }: { projectId: number; profile
       />
     </section>
   );
-}
-
-function selectedText(text: string, tokens: readonly { start: number; end: number }[], selection: TokenSelection): string {
-  const from = Math.min(selection.anchor, selection.focus);
-  const to = Math.max(selection.anchor, selection.focus);
-  return spanText(text, tokens, { start: from, end: to + 1, slot: '' }) || 'nothing';
-}
-
-function useConflictUtterance(id: number | null): { text: string; tokens: { start: number; end: number }[] } | null {
-  const [value, setValue] = useState<{ id: number; text: string; tokens: { start: number; end: number }[] } | null>(null);
-  useEffect(() => {
-    if (id === null) return;
-    let live = true;
-    void appDb()
-      .utterances.get(id)
-      .then((u) => live && u !== undefined && setValue({ id, text: u.text, tokens: tokensUnpack(u.tokens) }));
-    return () => {
-      live = false;
-    };
-  }, [id]);
-  return value !== null && value.id === id ? value : null;
 }

@@ -2,8 +2,9 @@ import { forwardRef, useEffect, useRef, type CSSProperties, type KeyboardEvent, 
 import type { SlotDef } from '../../../core/backup/model';
 import { selectionFromClick, selectionRange, type TokenSelection } from '../../../core/editing';
 import { spansFromTags } from '../../../core/schemes';
-import type { Token } from '../../../core/types';
+import type { Span, Token } from '../../../core/types';
 import { colourTint, slotColour, tokenName } from './label-text';
+import { suggestionTokenName } from './suggestions';
 
 interface TokenStripProps {
   text: string;
@@ -17,7 +18,11 @@ interface TokenStripProps {
   /** Other annotators' layers: a picture only (hidden from screen readers, which get a text summary beside it). */
   readOnly?: boolean;
   idPrefix: string;
+  /** Model suggestions over unlabelled tokens: dashed outline and a "suggested" caption, not a tint. */
+  suggestions?: readonly Span[];
 }
+
+const NO_SUGGESTIONS: readonly Span[] = [];
 
 /**
  * The utterance as separate tokens, with the original text between them (so it reads naturally), in a
@@ -26,7 +31,7 @@ interface TokenStripProps {
  * its slot name as text, so colour is never the only cue (WCAG 2.2, 1.4.1).
  */
 export const TokenStrip = forwardRef<HTMLDivElement, TokenStripProps>(function TokenStrip(props, ref) {
-  const { text, tokens, tags, slots, selection, onSelect, onKeyDown, label, readOnly = false, idPrefix } = props;
+  const { text, tokens, tags, slots, selection, onSelect, onKeyDown, label, readOnly = false, idPrefix, suggestions = NO_SUGGESTIONS } = props;
   const drag = useRef<{ anchor: number; moved: boolean } | null>(null);
   const tagsRef = useRef(tags);
   tagsRef.current = tags;
@@ -49,6 +54,10 @@ export const TokenStrip = forwardRef<HTMLDivElement, TokenStripProps>(function T
   spans.forEach((s, n) => {
     for (let i = s.start; i < s.end; i++) spanOf[i] = n;
   });
+  const suggestedOf = new Array<number>(suggestions.length === 0 ? 0 : tokens.length).fill(-1);
+  suggestions.forEach((s, n) => {
+    for (let i = s.start; i < s.end; i++) if (spanOf[i] === -1) suggestedOf[i] = n;
+  });
 
   const pieces: ReactElement[] = [];
   const lead = text.slice(0, tokens[0]?.start ?? text.length);
@@ -59,14 +68,26 @@ export const TokenStrip = forwardRef<HTMLDivElement, TokenStripProps>(function T
     const colour = span === undefined ? undefined : slotColour(slots, span.slot);
     const style: CSSProperties | undefined = colour === undefined ? undefined : { background: colourTint(colour), borderBottomColor: colour };
     const selected = range !== null && i >= range.from && i <= range.to;
-    const classes = ['label-token', span !== undefined && 'in-span', span?.start === i && 'span-start', span?.end === i + 1 && 'span-end', selected && 'selected', !readOnly && selection.focus === i && 'focus'];
+    const suggestion = suggestions[suggestedOf[i] ?? -1];
+    const classes = [
+      'label-token',
+      span !== undefined && 'in-span',
+      span?.start === i && 'span-start',
+      span?.end === i + 1 && 'span-end',
+      suggestion !== undefined && 'suggested',
+      suggestion?.start === i && 'suggested-start',
+      suggestion?.end === i + 1 && 'suggested-end',
+      selected && 'selected',
+      !readOnly && selection.focus === i && 'focus',
+    ];
+    const tokenText = text.slice(token.start, token.end);
     pieces.push(
       <span
         key={`t${i}`}
         id={`${idPrefix}-tok-${i}`}
         role={readOnly ? undefined : 'option'}
         aria-selected={readOnly ? undefined : selected}
-        aria-label={readOnly ? undefined : tokenName(text.slice(token.start, token.end), tags, i)}
+        aria-label={readOnly ? undefined : suggestion !== undefined ? suggestionTokenName(tokenText, suggestion, i) : tokenName(tokenText, tags, i)}
         className={classes.filter(Boolean).join(' ')}
         style={style}
         data-index={i}
@@ -92,9 +113,16 @@ export const TokenStrip = forwardRef<HTMLDivElement, TokenStripProps>(function T
               }
         }
       >
-        {text.slice(token.start, token.end)}
+        {tokenText}
       </span>,
     );
+    if (suggestion !== undefined && suggestion.end === i + 1) {
+      pieces.push(
+        <span key={`s${i}`} className="label-caption label-caption-suggested" aria-hidden="true" style={{ borderColor: slotColour(slots, suggestion.slot) }}>
+          suggested: {suggestion.slot}
+        </span>,
+      );
+    }
     if (span !== undefined && span.end === i + 1) {
       pieces.push(
         <span key={`c${i}`} className="label-caption" aria-hidden="true" style={{ borderColor: colour }}>

@@ -32,10 +32,16 @@ import { tokensCount } from '../../../db/tokens';
 
 export type StoredEdit = LayerEdit & { revision: number };
 type ItemKind = 'edit' | 'undo' | 'redo';
+/** Several edits saved as one (accepting every suggestion): one history row, one undo step. */
+type QueuedOp = EditOp | { kind: 'batch'; ops: readonly EditOp[] };
+
+function opApply(edit: LayerEdit, op: QueuedOp): LayerEdit {
+  return op.kind === 'batch' ? op.ops.reduce((e, o) => editApply(e, o), edit) : editApply(edit, op);
+}
 
 interface QueueItem {
   key: LayerKey;
-  op: EditOp;
+  op: QueuedOp;
   kind: ItemKind;
   entry?: UndoEntry;
   /** Set when the user chose "apply mine on top" after a conflict: no more checks but the revision. */
@@ -168,6 +174,16 @@ export class LabelEditor {
     void this.run();
   }
 
+  /** Apply several edits as one step (one save, one undo entry); nothing happens for none. */
+  editAll(ops: readonly EditOp[]): void {
+    if (ops.length === 0) return;
+    if (ops.length === 1) return this.edit(ops[0] as EditOp);
+    if (this.current === null || this.conflict !== null) return;
+    this.queue.push({ key: this.current, op: { kind: 'batch', ops: [...ops] }, kind: 'edit' });
+    this.changed();
+    void this.run();
+  }
+
   undo(): void {
     this.reverseWaiting.push('undo');
     this.reversePump();
@@ -237,8 +253,8 @@ export class LabelEditor {
     const k = keyText(item.key);
     const items = this.queue.filter((i) => keyText(i.key) === k);
     this.queue = this.queue.filter((i) => keyText(i.key) !== k);
-    const mine = items.reduce<LayerEdit>((edit, i) => editApply(edit, i.op), mineBase);
-    const mineOnTheirs = items.reduce<LayerEdit>((edit, i) => editApply(edit, i.op), theirs);
+    const mine = items.reduce<LayerEdit>((edit, i) => opApply(edit, i.op), mineBase);
+    const mineOnTheirs = items.reduce<LayerEdit>((edit, i) => opApply(edit, i.op), theirs);
     this.conflict = { key: item.key, cause: item.kind, theirs, mine, mineOnTheirs, items };
     this.reverseWaiting = [];
   }
@@ -255,7 +271,7 @@ export class LabelEditor {
           this.conflictRaise(item, base, { ...item.entry.after });
           break;
         }
-        const target = editApply(base, item.op);
+        const target = opApply(base, item.op);
         const change = editChange(base, target);
         if (Object.keys(change).length === 0) {
           this.queue.shift();
@@ -305,7 +321,7 @@ export class LabelEditor {
     const c = this.conflict;
     let edit: LayerEdit | null = null;
     if (key !== null && base !== undefined) {
-      edit = c !== null && sameKey(key, c.key) ? c.mine : this.queue.filter((i) => sameKey(i.key, key)).reduce<LayerEdit>((e, i) => editApply(e, i.op), base);
+      edit = c !== null && sameKey(key, c.key) ? c.mine : this.queue.filter((i) => sameKey(i.key, key)).reduce<LayerEdit>((e, i) => opApply(e, i.op), base);
     }
     // Same content, same object: memoised parts of the screen then skip the repaint after each save.
     const previous = this.view?.edit ?? null;

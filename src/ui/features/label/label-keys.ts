@@ -16,6 +16,7 @@ export type LabelCommand =
   | { kind: 'status'; status: LayerStatus }
   | { kind: 'intentFocus' }
   | { kind: 'noteFocus' }
+  | { kind: 'suggestion'; act: 'accept' | 'reject'; all: boolean }
   | { kind: 'undo' }
   | { kind: 'redo' }
   | { kind: 'help' };
@@ -54,6 +55,10 @@ const FIXED: readonly FixedKey[] = [
   { keys: 'Shift+F', what: 'Mark as flagged (needs a second look)', matches: (p) => plain(p) && p.shift && p.key.toUpperCase() === 'F', command: () => ({ kind: 'status', status: 'flagged' }) },
   { keys: 'Shift+I', what: 'Go to the intent choice', matches: (p) => plain(p) && p.shift && p.key.toUpperCase() === 'I', command: () => ({ kind: 'intentFocus' }) },
   { keys: 'Shift+T', what: 'Go to the note', matches: (p) => plain(p) && p.shift && p.key.toUpperCase() === 'T', command: () => ({ kind: 'noteFocus' }) },
+  { keys: 'Shift+A', what: 'Accept the model suggestion at the selection (or the next one after it)', matches: (p) => plain(p) && p.shift && p.key.toUpperCase() === 'A', command: () => ({ kind: 'suggestion', act: 'accept', all: false }) },
+  { keys: 'Shift+R', what: 'Reject the model suggestion at the selection (or the next one after it)', matches: (p) => plain(p) && p.shift && p.key.toUpperCase() === 'R', command: () => ({ kind: 'suggestion', act: 'reject', all: false }) },
+  { keys: 'Shift+Y', what: 'Accept every model suggestion of this utterance (“yes to all”)', matches: (p) => plain(p) && p.shift && p.key.toUpperCase() === 'Y', command: () => ({ kind: 'suggestion', act: 'accept', all: true }) },
+  { keys: 'Shift+X', what: 'Reject every model suggestion of this utterance', matches: (p) => plain(p) && p.shift && p.key.toUpperCase() === 'X', command: () => ({ kind: 'suggestion', act: 'reject', all: true }) },
   { keys: 'Ctrl+Z', what: 'Undo the last edit (in any utterance)', matches: (p) => mod(p) && !p.shift && p.key.toLowerCase() === 'z', command: () => ({ kind: 'undo' }) },
   { keys: 'Ctrl+Shift+Z or Ctrl+Y', what: 'Redo the last undone edit', matches: (p) => mod(p) && ((p.shift && p.key.toLowerCase() === 'z') || (!p.shift && p.key.toLowerCase() === 'y')), command: () => ({ kind: 'redo' }) },
   { keys: '?', what: 'Show this list of keys', matches: (p) => !p.ctrl && !p.alt && !p.meta && p.key === '?', command: () => ({ kind: 'help' }) },

@@ -1,6 +1,6 @@
 /** Words and colours of the span editor, kept out of the components so they can be tested. */
 import type { SlotDef } from '../../../core/backup/model';
-import type { LayerEdit } from '../../../core/editing';
+import type { LayerEdit, TokenSelection } from '../../../core/editing';
 import { spansFromTags } from '../../../core/schemes';
 import type { Span, Token } from '../../../core/types';
 
@@ -65,4 +65,11 @@ export function slotsMatching(slots: readonly SlotDef[], typed: string): SlotDef
   const starts = slots.filter((s) => s.name.toLowerCase().startsWith(q));
   const contains = slots.filter((s) => !s.name.toLowerCase().startsWith(q) && (s.name.toLowerCase().includes(q) || (s.description ?? '').toLowerCase().includes(q)));
   return [...starts, ...contains];
+}
+
+/** The selected tokens' text (for the token list's accessible name), or "nothing". */
+export function selectedText(text: string, tokens: readonly { start: number; end: number }[], selection: TokenSelection): string {
+  const from = Math.min(selection.anchor, selection.focus);
+  const to = Math.max(selection.anchor, selection.focus);
+  return spanText(text, tokens, { start: from, end: to + 1, slot: '' }) || 'nothing';
 }

@@ -3,7 +3,7 @@ import Dexie from 'dexie';
 import { useLiveQuery } from 'dexie-react-hooks';
 import { useEffect, useMemo } from 'react';
 import { tokensUnpack } from '../../../db/tokens';
-import { labelNextUnlabelled } from '../../../db/label-nav';
+import { labelNextUncertain, labelNextUnlabelled, labelUncertainOrder } from '../../../db/label-nav';
 import { projectGet } from '../../../db/project-repo';
 import type { LayerRow, ProjectRow, UtteranceRow } from '../../../db/schema';
 import { useNav } from '../../../state/nav';
@@ -25,6 +25,7 @@ export interface LabelData {
 export function useLabelData(projectId: number, layerName: string): LabelData {
   const { query, queryReplace } = useNav();
   const wanted = query.u === undefined ? null : Number(query.u);
+  const uncertain = query.order === 'uncertain';
   const db = appDb();
   const project = useLiveQuery(async () => (await projectGet(db, projectId)) ?? null, [projectId]);
   const utterance = useLiveQuery(async () => {
@@ -42,18 +43,19 @@ export function useLabelData(projectId: number, layerName: string): LabelData {
   const total = useLiveQuery(() => db.utterances.where('[projectId+seq]').between([projectId, Dexie.minKey], [projectId, Dexie.maxKey]).count(), [projectId]);
   const tokens = useMemo(() => (utterance ? tokensUnpack(utterance.tokens) : []), [utterance]);
 
-  // No utterance in the URL: open the first one this layer has not started (else the first of all).
+  // No utterance in the URL: open the first one this layer has not started, in the chosen order (else the first of all).
   useEffect(() => {
     if (wanted !== null) return;
     let live = true;
     void (async () => {
-      const next = (await labelNextUnlabelled(db, projectId, layerName, null)) ?? (await db.utterances.where('[projectId+seq]').between([projectId, Dexie.minKey], [projectId, Dexie.maxKey]).first());
+      const first = uncertain ? await labelNextUncertain(db, projectId, layerName, await labelUncertainOrder(db, projectId), null) : await labelNextUnlabelled(db, projectId, layerName, null);
+      const next = first ?? (await db.utterances.where('[projectId+seq]').between([projectId, Dexie.minKey], [projectId, Dexie.maxKey]).first());
       if (live && next !== undefined) queryReplace({ ...useNav.getState().query, u: String(next.id) });
     })();
     return () => {
       live = false;
     };
-  }, [wanted, projectId, layerName, db, queryReplace]);
+  }, [wanted, projectId, layerName, db, queryReplace, uncertain]);
 
   return { project, utterance, tokens, layers, position, total };
 }

@@ -54,3 +54,27 @@ describe('labelCommandFor', () => {
     for (const row of help) expect(row.what.length).toBeGreaterThan(5);
   });
 });
+
+describe('suggestion keys', () => {
+  it('Shift+A / Shift+R act on one suggestion, Shift+Y / Shift+X on all; without Shift they stay slot keys', () => {
+    const slots: SlotDef[] = [{ name: 'area', key: 'a' }, { name: 'day', key: 'y' }];
+    expect(labelCommandFor(press('A', { shift: true }), slots)).toEqual({ kind: 'suggestion', act: 'accept', all: false });
+    expect(labelCommandFor(press('R', { shift: true }), slots)).toEqual({ kind: 'suggestion', act: 'reject', all: false });
+    expect(labelCommandFor(press('Y', { shift: true }), slots)).toEqual({ kind: 'suggestion', act: 'accept', all: true });
+    expect(labelCommandFor(press('X', { shift: true }), slots)).toEqual({ kind: 'suggestion', act: 'reject', all: true });
+    expect(labelCommandFor(press('a'), slots)).toEqual({ kind: 'label', slot: 'area' });
+    expect(labelCommandFor(press('y'), slots)).toEqual({ kind: 'label', slot: 'day' });
+    // Ctrl+Y stays redo.
+    expect(labelCommandFor(press('y', { ctrl: true }), slots)).toEqual({ kind: 'redo' });
+  });
+
+  it('the help overlay lists the four suggestion keys, and no two commands share a key', () => {
+    const help = labelKeyHelp([]);
+    for (const keys of ['Shift+A', 'Shift+R', 'Shift+Y', 'Shift+X']) expect(help.find((r) => r.keys === keys)?.what).toMatch(/suggestion/);
+    const letters = 'ABCDEFGHIJKLMNOPQRSTUVWXYZ'.split('');
+    for (const letter of letters) {
+      const hits = help.filter((r) => r.keys.split(/ \/ | or /).includes(`Shift+${letter}`));
+      expect(hits.length).toBeLessThanOrEqual(1);
+    }
+  });
+});
