@@ -55,9 +55,9 @@ describe('slotsmith agree on worker threads', () => {
 });
 
 describe('agreeThreadsChoose', () => {
-  it('uses threads by itself only for large inputs on machines with two CPUs or more', () => {
-    expect(agreeThreadsChoose(undefined, 2, AGREE_THREADS_FROM_BYTES)).toBe(2);
-    expect(agreeThreadsChoose(undefined, 16, AGREE_THREADS_FROM_BYTES)).toBe(4);
+  it('starts helpers by itself only for large inputs on machines with two CPUs or more, one fewer than the CPUs (the main thread works too)', () => {
+    expect(agreeThreadsChoose(undefined, 2, AGREE_THREADS_FROM_BYTES)).toBe(1);
+    expect(agreeThreadsChoose(undefined, 16, AGREE_THREADS_FROM_BYTES)).toBe(3);
     expect(agreeThreadsChoose(undefined, 2, AGREE_THREADS_FROM_BYTES - 1)).toBe(0);
     expect(agreeThreadsChoose(undefined, 1, 10 * AGREE_THREADS_FROM_BYTES)).toBe(0);
   });
@@ -67,6 +67,6 @@ describe('agreeThreadsChoose', () => {
     expect(agreeThreadsChoose('3', 2, 0)).toBe(3);
     expect(agreeThreadsChoose('64', 2, 0)).toBe(4);
     expect(agreeThreadsChoose('two', 2, 10 * AGREE_THREADS_FROM_BYTES)).toBe(0);
-    expect(agreeThreadsChoose('', 2, AGREE_THREADS_FROM_BYTES)).toBe(2);
+    expect(agreeThreadsChoose('', 2, AGREE_THREADS_FROM_BYTES)).toBe(1);
   });
 });

@@ -5,8 +5,8 @@ import type { ReadError } from '../../core/types';
 import { documentLoad, type LoadOptions } from '../load';
 
 /**
- * Worker threads for `agree`: each parses one file into alignment data, then runs a range of
- * bootstrap resamples. Both are pure core functions; the bootstrap ranges join into exactly the
+ * Helper threads for `agree`: each parses files into alignment data, then runs a range of
+ * bootstrap resamples, while the main thread does its own share of both. Both are pure core functions; the bootstrap ranges join into exactly the
  * one-thread values (see `bootstrapRange`), so the figures do not depend on the thread count.
  * The worker runs this same module file (the CLI bundle), recognised by its `workerData` marker.
  */
@@ -48,14 +48,14 @@ if (!isMainThread && (workerData as { mark?: string } | null)?.mark === WORKER_M
 export const AGREE_THREADS_FROM_BYTES = 8 << 20;
 
 /**
- * Threads to use: `asked` (SLOTSMITH_WORKERS) when set (0 = none, capped at twice the CPUs);
- * otherwise one per CPU (at most 4) once the input reaches AGREE_THREADS_FROM_BYTES on a machine
- * with two CPUs or more. The files then parse side by side and the bootstrap resamples split between
- * threads; the figures do not depend on it.
+ * Helper threads to start beside the main thread, which takes its own share of the work:
+ * `asked` (SLOTSMITH_WORKERS) when set (0 = none, capped at twice the CPUs); otherwise one fewer
+ * than the CPUs (at most 3) once the input reaches AGREE_THREADS_FROM_BYTES. The files then parse
+ * side by side and the bootstrap resamples split between the threads; the figures do not depend on it.
  */
 export function agreeThreadsChoose(asked: string | undefined, cpus: number, inputBytes: number): number {
   if (asked !== undefined && asked !== '') return /^\d+$/.test(asked) ? Math.min(Number(asked), cpus * 2) : 0;
-  return cpus >= 2 && inputBytes >= AGREE_THREADS_FROM_BYTES ? Math.min(cpus, 4) : 0;
+  return cpus >= 2 && inputBytes >= AGREE_THREADS_FROM_BYTES ? Math.min(cpus, 4) - 1 : 0;
 }
 
 /** `agreeThreadsChoose` for this process; none when running from TypeScript sources (a worker could not load the file). */
@@ -87,29 +87,35 @@ export class AgreeWorkers {
     });
   }
 
-  /** Parse the files in parallel (file i on worker i mod count), replies in file order. */
+  /**
+   * Parse the files in parallel, replies in file order: with n helpers, file i goes to helper
+   * i mod (n + 1), or is parsed here when that is n. The helpers' requests are posted before this
+   * thread starts on its own files, and its share needs no copying between threads.
+   */
   async gather(files: readonly string[], options: LoadOptions): Promise<GatherReply[]> {
-    const count = this.workers.length;
+    const lanes = this.workers.length + 1;
     const replies: GatherReply[] = new Array<GatherReply>(files.length);
-    const lanes = this.workers.map(async (worker, w) => {
-      for (let i = w; i < files.length; i += count) {
+    const helping = this.workers.map(async (worker, w) => {
+      for (let i = w; i < files.length; i += lanes) {
         replies[i] = await this.ask<GatherReply>(worker, { kind: 'gather', file: files[i] ?? '', options });
       }
     });
-    await Promise.all(lanes);
+    for (let i = this.workers.length; i < files.length; i += lanes) replies[i] = gather(files[i] ?? '', options);
+    await Promise.all(helping);
     return replies;
   }
 
-  /** All resamples of the job, split into one contiguous range per worker, in resample order. */
-  bootstrap(job: BootstrapJob): Promise<ResampleValues[]> {
-    const count = this.workers.length;
-    return Promise.all(
-      this.workers.map((worker, w) => {
-        const from = Math.floor((job.resamples * w) / count);
-        const to = Math.floor((job.resamples * (w + 1)) / count);
-        return this.ask<ResampleValues>(worker, { kind: 'bootstrap', job, from, to });
-      }),
-    );
+  /** All resamples of the job in one contiguous range per thread (this one takes the last), in resample order. */
+  async bootstrap(job: BootstrapJob): Promise<ResampleValues[]> {
+    const lanes = this.workers.length + 1;
+    const range = (w: number) => [Math.floor((job.resamples * w) / lanes), Math.floor((job.resamples * (w + 1)) / lanes)] as const;
+    const helping = this.workers.map((worker, w) => {
+      const [from, to] = range(w);
+      return this.ask<ResampleValues>(worker, { kind: 'bootstrap', job, from, to });
+    });
+    const [from, to] = range(this.workers.length);
+    const mine = bootstrapRange(job.rows, job.layout, job.seed, from, to);
+    return [...(await Promise.all(helping)), mine];
   }
 
   async close(): Promise<void> {
