@@ -1,8 +1,8 @@
 import { create } from 'zustand';
 
 /** The screens of the app; each project screen needs an open project. */
-export type View = 'projects' | 'overview' | 'corpus' | 'label' | 'agreement' | 'resolve' | 'rules' | 'model' | 'schema' | 'import' | 'export' | 'team' | 'settings';
-export const PROJECT_VIEWS: readonly View[] = ['overview', 'corpus', 'label', 'agreement', 'resolve', 'rules', 'model', 'schema', 'import', 'export', 'team', 'settings'];
+export type View = 'projects' | 'overview' | 'corpus' | 'label' | 'agreement' | 'resolve' | 'rules' | 'mistakes' | 'model' | 'schema' | 'import' | 'export' | 'team' | 'settings';
+export const PROJECT_VIEWS: readonly View[] = ['overview', 'corpus', 'label', 'agreement', 'resolve', 'rules', 'mistakes', 'model', 'schema', 'import', 'export', 'team', 'settings'];
 
 export interface NavPlace {
   view: View;

@@ -3,7 +3,13 @@
  * the e2e reference use the same rules as the worker.
  */
 import { ANNOTATOR_GOLD, ANNOTATOR_MODEL, type LayerStatus } from '../core/backup/model';
-import { findingLocations, type Finding } from '../core/error-detect';
+import { findingLocations, type Finding, type FindingKind } from '../core/error-detect';
+
+/** The order the screen lists the kinds in: text-level evidence first, the model's opinion last. */
+export const FINDING_KINDS: readonly FindingKind[] = ['variation', 'identical', 'slot-outlier', 'model-disagreement'];
+
+/** Places per reading whose words travel with the scan; the screen says how many more there are. */
+export const LOCATIONS_SHOWN = 10;
 
 export interface LayerRef {
   utteranceId: number;

@@ -13,7 +13,6 @@ import {
   slotOutliersFind,
   variationFind,
   type Finding,
-  type FindingKind,
   type LabelledUtterance,
   type ModelComparedUtterance,
 } from '../core/error-detect';
@@ -21,13 +20,9 @@ import { RecordMissingError } from '../db/errors';
 import { projectModel } from '../db/model-repo';
 import type { LayerKey, SlotsmithDb, UtteranceRow } from '../db/schema';
 import { tokensUnpack } from '../db/tokens';
-import { findingsAcrossUtterances, findingsLayersChoose, type LayerRef } from './findings-choose';
+import { findingsAcrossUtterances, findingsLayersChoose, LOCATIONS_SHOWN, type LayerRef } from './findings-choose';
 
-/** The order the screen lists the kinds in: text-level evidence first, the model's opinion last. */
-export const FINDING_KINDS: readonly FindingKind[] = ['variation', 'identical', 'slot-outlier', 'model-disagreement'];
-
-/** Places per reading whose words travel with the scan; the screen says how many more there are. */
-export const LOCATIONS_SHOWN = 10;
+export { FINDING_KINDS, LOCATIONS_SHOWN } from './findings-choose';
 
 export interface FindingsScanProgress {
   phase: 'reading' | 'tagging' | 'checking';

@@ -14,6 +14,7 @@ const VIEW_LABELS: Record<Exclude<View, 'projects'>, string> = {
   agreement: 'Agreement',
   resolve: 'Resolve',
   rules: 'Rule review',
+  mistakes: 'Likely mistakes',
   model: 'Model',
   schema: 'Slots and intents',
   import: 'Bring in data',

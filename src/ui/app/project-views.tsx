@@ -5,6 +5,7 @@ import { ExportView } from '../features/export/ExportView';
 import { demoLoad } from '../features/import/demo-load';
 import { ImportView } from '../features/import/ImportView';
 import { LabelView } from '../features/label/LabelView';
+import { MistakesView } from '../features/mistakes/MistakesView';
 import { ModelView } from '../features/model/ModelView';
 import { OverviewView } from '../features/overview/OverviewView';
 import { ProfileBadge } from '../features/profile/ProfileBadge';
@@ -29,6 +30,7 @@ export const projectViews: {
   agreement: ComponentType<ProjectViewProps>;
   resolve: ComponentType<ProjectViewProps>;
   rules: ComponentType<ProjectViewProps>;
+  mistakes: ComponentType<ProjectViewProps>;
   model: ComponentType<ProjectViewProps>;
   schema: ComponentType<ProjectViewProps>;
   import: ComponentType<ProjectViewProps>;
@@ -50,6 +52,7 @@ export const projectViews: {
   agreement: AgreementView,
   resolve: ResolveView,
   rules: RulesView,
+  mistakes: MistakesView,
   model: ModelView,
   schema: SchemaView,
   import: ImportView,
