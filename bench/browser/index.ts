@@ -5,8 +5,10 @@
  * project, and the agreement dashboard on a 100k double-annotated project. Numbers are printed,
  * never asserted.
  */
-import { existsSync, statSync, writeFileSync } from 'node:fs';
-import { chromium } from '@playwright/test';
+import { existsSync, mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { chromium, type BrowserContext } from '@playwright/test';
 import { columnsWrite } from '../../src/core/formats';
 import type { Utterance } from '../../src/core/types';
 import { corpusGenerate } from '../../scripts/corpus/generate';
@@ -56,10 +58,13 @@ export async function browserBench(options: BrowserBenchOptions): Promise<void> 
   const file = fileEnsure(options);
   distEnsure(root);
   const server = await previewStart(root);
-  const browser = await chromium.launch({ executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium', headless: true, args: CHROMIUM_ARGS });
+  // One profile folder for both launches below, so the second finds the projects the first stored.
+  const profile = mkdtempSync(join(tmpdir(), 'slotsmith-bench-profile-'));
+  const launch = (extra: string[]) =>
+    chromium.launchPersistentContext(profile, { executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium', headless: true, args: [...CHROMIUM_ARGS, ...extra], acceptDownloads: true });
+  let context: BrowserContext = await launch([]);
   try {
-    const context = await browser.newContext({ acceptDownloads: true });
-    const page = await context.newPage();
+    const page = context.pages()[0] ?? (await context.newPage());
     await page.goto(server.url);
     console.log(`\n== browser: IndexedDB limit, app import/export of ${mb(statSync(file).size).toFixed(1)} MB IOB2 (Chromium headless, one run each)`);
     const rawDefault = await idbRawRate(page, count, 'default');
@@ -113,8 +118,18 @@ export async function browserBench(options: BrowserBenchOptions): Promise<void> 
     console.log(`\n== browser: label screen of the ${count.toLocaleString('en')}-utterance project`);
     await labelKeysBench(page, server.url, projectId);
     agreementDashboardPrint(await agreementDashboardBench(page, server.url, { out: options.out, count, seed: options.seed }));
+
+    // The same presses with frames drawn as soon as they are ready (no wait for the 60 Hz clock): what
+    // remains is the app's own work from key to paint, whatever the phase of the press in the frame.
+    await context.close();
+    context = await launch(['--disable-frame-rate-limit', '--disable-gpu-vsync']);
+    console.log(`\n== browser: label screen again, same project, frame rate not capped`);
+    await labelKeysBench(context.pages()[0] ?? (await context.newPage()), server.url, projectId, {
+      frames: 'drawn as soon as ready (--disable-frame-rate-limit --disable-gpu-vsync): no wait for the next 60 Hz frame',
+    });
   } finally {
-    await browser.close();
+    await context.close();
     server.stop();
+    rmSync(profile, { recursive: true, force: true });
   }
 }

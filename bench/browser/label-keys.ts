@@ -14,6 +14,8 @@ export interface LabelKeysOptions {
   perUtterance?: number;
   /** The profile written into the session; its layer receives the edits. */
   annotator?: string;
+  /** How the browser was drawing frames, for the printed line (default: the 60 Hz frame clock). */
+  frames?: string;
 }
 
 export interface LabelKeysResult {
@@ -154,6 +156,7 @@ export async function labelKeysBench(page: Page, baseUrl: string, projectId: num
     mean: samples.reduce((a, b) => a + b, 0) / Math.max(1, samples.length),
   };
   const ms = (n: number) => `${n.toFixed(1)} ms`;
+  console.log(`  frames: ${options.frames ?? 'drawn on the 60 Hz frame clock (a press waits for the next frame: up to 16.7 ms)'}`);
   console.log(
     `  label key → painted label: p50 ${ms(result.p50)}, p95 ${ms(result.p95)} (target ≤ ${TARGET_MS} ms: ${result.p95 <= TARGET_MS ? 'met' : 'NOT met'}), ` +
       `max ${ms(result.max)}, mean ${ms(result.mean)} over ${result.presses} presses on ${result.utterances} utterances`,
