@@ -9,6 +9,8 @@
 export const CRF_FEATURE_SET = 'slotsmith-window2/1';
 
 export const CRF_WINDOW = 2;
+/** Window places per token: offsets −CRF_WINDOW … +CRF_WINDOW. */
+export const CRF_SPAN = 2 * CRF_WINDOW + 1;
 
 const OFFSET_NAMES = ['-2', '-1', '0', '+1', '+2'];
 

@@ -1,7 +1,6 @@
-import { attributeAt, CRF_WINDOW, wordTemplates } from './attributes';
+import { attributeAt, CRF_SPAN as SPAN, CRF_WINDOW, wordTemplates } from './attributes';
 import type { IntBuffer } from './int-buffer';
 
-const SPAN = 2 * CRF_WINDOW + 1;
 const WORD_CACHE_LIMIT = 200_000;
 
 /**
@@ -14,11 +13,11 @@ export class AttributeEncoder {
   readonly names: string[];
   private readonly ids = new Map<string, number>();
   private readonly words = new Map<string, Int32Array[]>();
-  private readonly bos: Int32Array[] = [];
-  private readonly eos: Int32Array[] = [];
-  private readonly bias: Int32Array;
+  /** Per window place k (offset k − CRF_WINDOW): the attribute ids a token gets there when that place is before the start / past the end. */
+  readonly bos: Int32Array[] = [];
+  readonly eos: Int32Array[] = [];
+  readonly bias: Int32Array;
   private growing: boolean;
-
   constructor(names: readonly string[] = [], growing = true) {
     this.names = [...names];
     this.names.forEach((name, id) => this.ids.set(name, id));
@@ -58,16 +57,21 @@ export class AttributeEncoder {
     return Int32Array.from(out);
   }
 
-  private wordIds(word: string): Int32Array[] {
+  /** The attribute ids `word` gives a token at each window place k (offset k − CRF_WINDOW), not cached. */
+  wordIdsFresh(word: string): Int32Array[] {
+    const templates = wordTemplates(word);
+    const out: Int32Array[] = [];
+    for (let offset = -CRF_WINDOW; offset <= CRF_WINDOW; offset++) out.push(this.idsOf(templates.map((template) => attributeAt(template, offset))));
+    return out;
+  }
+
+  /** As `wordIdsFresh`, cached per word. */
+  wordIds(word: string): Int32Array[] {
     let cached = this.words.get(word);
     if (cached === undefined) {
       // Rare words (phone numbers, references) would grow the cache without bound over a large corpus.
       if (this.words.size >= WORD_CACHE_LIMIT) this.words.clear();
-      const templates = wordTemplates(word);
-      cached = [];
-      for (let offset = -CRF_WINDOW; offset <= CRF_WINDOW; offset++) {
-        cached.push(this.idsOf(templates.map((template) => attributeAt(template, offset))));
-      }
+      cached = this.wordIdsFresh(word);
       this.words.set(word, cached);
     }
     return cached;

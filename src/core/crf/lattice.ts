@@ -11,16 +11,18 @@ export class Lattice {
   alpha = new Float64Array(0);
   beta = new Float64Array(0);
   scale = new Float64Array(0);
-  shift = new Float64Array(0);
   /** Token marginals, T × L, after `run`. */
   marginals = new Float64Array(0);
   private readonly row: Float64Array;
   private readonly pairs: Float64Array;
+  /** expTrans transposed, so the forward sum over predecessors reads memory in order. */
+  private readonly transposed: Float64Array;
 
   constructor(labelCount: number) {
     this.labelCount = labelCount;
     this.row = new Float64Array(labelCount);
     this.pairs = new Float64Array(labelCount * labelCount);
+    this.transposed = new Float64Array(labelCount * labelCount);
   }
 
   reserve(tokens: number): void {
@@ -32,7 +34,6 @@ export class Lattice {
     this.beta = new Float64Array(cells);
     this.marginals = new Float64Array(cells);
     this.scale = new Float64Array(size);
-    this.shift = new Float64Array(size);
     this.capacity = size;
   }
 
@@ -52,79 +53,94 @@ export class Lattice {
   ): number {
     const L = this.labelCount;
     this.reserve(tokens);
-    const { expState, alpha, beta, scale, shift, marginals, row } = this;
-    for (let t = 0; t < tokens; t++) {
-      const base = t * L;
-      let max = -Infinity;
-      for (let j = 0; j < L; j++) if ((state[base + j] as number) > max) max = state[base + j] as number;
-      shift[t] = max;
-      for (let j = 0; j < L; j++) expState[base + j] = Math.exp((state[base + j] as number) - max);
-    }
-    // Forward.
-    let sum = 0;
-    for (let j = 0; j < L; j++) {
-      const v = (expState[j] as number) * (start === null ? 1 : (start[j] as number));
-      alpha[j] = v;
-      sum += v;
-    }
-    scale[0] = 1 / sum;
-    for (let j = 0; j < L; j++) alpha[j] = (alpha[j] as number) / sum;
-    for (let t = 1; t < tokens; t++) {
-      const prev = (t - 1) * L;
-      const base = t * L;
-      row.fill(0);
-      for (let i = 0; i < L; i++) {
-        const a = alpha[prev + i] as number;
-        if (a === 0) continue;
-        const tr = i * L;
-        for (let j = 0; j < L; j++) row[j] = (row[j] as number) + a * (expTrans[tr + j] as number);
-      }
-      sum = 0;
-      for (let j = 0; j < L; j++) {
-        const v = (row[j] as number) * (expState[base + j] as number);
-        alpha[base + j] = v;
-        sum += v;
-      }
-      const c = 1 / sum;
-      scale[t] = c;
-      for (let j = 0; j < L; j++) alpha[base + j] = (alpha[base + j] as number) * c;
-    }
-    // Backward, scaled by the same factors; the pair expectations share its inner loop.
-    const pairs = pairOut === null ? null : this.pairs;
-    if (pairs !== null) pairs.fill(0);
-    const last = (tokens - 1) * L;
-    for (let i = 0; i < L; i++) beta[last + i] = scale[tokens - 1] as number;
-    for (let t = tokens - 2; t >= 0; t--) {
-      const base = t * L;
-      const next = (t + 1) * L;
-      for (let j = 0; j < L; j++) row[j] = (expState[next + j] as number) * (beta[next + j] as number);
-      const c = scale[t] as number;
-      for (let i = 0; i < L; i++) {
-        const tr = i * L;
-        let s = 0;
-        if (pairs === null) {
-          for (let j = 0; j < L; j++) s += (expTrans[tr + j] as number) * (row[j] as number);
-        } else {
-          const a = alpha[base + i] as number;
-          for (let j = 0; j < L; j++) {
-            const r = row[j] as number;
-            s += (expTrans[tr + j] as number) * r;
-            pairs[tr + j] = (pairs[tr + j] as number) + a * r;
-          }
-        }
-        beta[base + i] = s * c;
-      }
-    }
-    // Marginals p_t(i) = α̂_t(i) β̂_t(i) / c_t; pairs p(i, j) = α̂_t(i) E(i, j) Ŝ_{t+1}(j) β̂_{t+1}(j), with E(i, j) taken out of the sum over t.
+    const { expState, alpha, beta, scale, marginals, row, transposed } = this;
     let logZ = 0;
     for (let t = 0; t < tokens; t++) {
       const base = t * L;
-      const c = scale[t] as number;
-      logZ += (shift[t] as number) - Math.log(c);
-      for (let i = 0; i < L; i++) marginals[base + i] = ((alpha[base + i] as number) * (beta[base + i] as number)) / c;
+      let max = state[base] as number;
+      for (let j = 1; j < L; j++) {
+        const v = state[base + j] as number;
+        if (v > max) max = v;
+      }
+      logZ += max;
+      for (let j = 0; j < L; j++) expState[base + j] = Math.exp((state[base + j] as number) - max);
+    }
+    if (tokens > 1) for (let i = 0; i < L; i++) for (let j = 0; j < L; j++) transposed[j * L + i] = expTrans[i * L + j] as number;
+    // Forward.
+    let sum = 0;
+    for (let j = 0; j < L; j++) {
+      const v = start === null ? (expState[j] as number) : (expState[j] as number) * (start[j] as number);
+      alpha[j] = v;
+      sum += v;
+    }
+    let c = 1 / sum;
+    scale[0] = c;
+    for (let j = 0; j < L; j++) alpha[j] = (alpha[j] as number) * c;
+    for (let t = 1; t < tokens; t++) {
+      const prev = (t - 1) * L;
+      const base = t * L;
+      sum = 0;
+      for (let j = 0; j < L; j++) {
+        const tr = j * L;
+        // Two running sums halve the add-latency chain that bounds this loop.
+        let s0 = 0;
+        let s1 = 0;
+        let i = 0;
+        for (; i + 1 < L; i += 2) {
+          s0 += (alpha[prev + i] as number) * (transposed[tr + i] as number);
+          s1 += (alpha[prev + i + 1] as number) * (transposed[tr + i + 1] as number);
+        }
+        if (i < L) s0 += (alpha[prev + i] as number) * (transposed[tr + i] as number);
+        const s = (s0 + s1) * (expState[base + j] as number);
+        alpha[base + j] = s;
+        sum += s;
+      }
+      c = 1 / sum;
+      scale[t] = c;
+      for (let j = 0; j < L; j++) alpha[base + j] = (alpha[base + j] as number) * c;
+    }
+    // Backward, scaled by the same factors; the pair expectations share its row.
+    const pairs = pairOut === null ? null : this.pairs;
+    if (pairs !== null) pairs.fill(0);
+    const last = (tokens - 1) * L;
+    c = scale[tokens - 1] as number;
+    for (let i = 0; i < L; i++) beta[last + i] = c;
+    for (let t = tokens - 2; t >= 0; t--) {
+      const base = t * L;
+      const next = base + L;
+      for (let j = 0; j < L; j++) row[j] = (expState[next + j] as number) * (beta[next + j] as number);
+      c = scale[t] as number;
+      for (let i = 0; i < L; i++) {
+        const tr = i * L;
+        let s0 = 0;
+        let s1 = 0;
+        let j = 0;
+        for (; j + 1 < L; j += 2) {
+          s0 += (expTrans[tr + j] as number) * (row[j] as number);
+          s1 += (expTrans[tr + j + 1] as number) * (row[j + 1] as number);
+        }
+        if (j < L) s0 += (expTrans[tr + j] as number) * (row[j] as number);
+        beta[base + i] = (s0 + s1) * c;
+      }
+      if (pairs !== null) {
+        for (let i = 0; i < L; i++) {
+          const a = alpha[base + i] as number;
+          if (a === 0) continue;
+          const tr = i * L;
+          for (let j = 0; j < L; j++) pairs[tr + j] = (pairs[tr + j] as number) + a * (row[j] as number);
+        }
+      }
+    }
+    // Marginals p_t(i) = α̂_t(i) β̂_t(i) / c_t; pairs p(i, j) = α̂_t(i) E(i, j) Ŝ_{t+1}(j) β̂_{t+1}(j), with E(i, j) taken out of the sum over t.
+    for (let t = 0; t < tokens; t++) {
+      const base = t * L;
+      const s = scale[t] as number;
+      logZ -= Math.log(s);
+      const inverse = 1 / s;
+      for (let i = 0; i < L; i++) marginals[base + i] = (alpha[base + i] as number) * (beta[base + i] as number) * inverse;
     }
     if (pairOut !== null && pairs !== null) {
-      for (let c = 0; c < L * L; c++) pairOut[pairOffset + c] = (pairOut[pairOffset + c] as number) + (pairs[c] as number) * (expTrans[c] as number);
+      for (let k = 0; k < L * L; k++) pairOut[pairOffset + k] = (pairOut[pairOffset + k] as number) + (pairs[k] as number) * (expTrans[k] as number);
     }
     return logZ;
   }

@@ -1,6 +1,6 @@
-import type { CrfDataset } from './dataset';
+import { CRF_SPAN } from './attributes';
+import { type CrfDataset, unitLabelCounts } from './dataset';
 import { Lattice } from './lattice';
-import { stateScoresFill } from './model';
 
 export interface CrfStructure {
   labelCount: number;
@@ -12,7 +12,9 @@ export interface CrfStructure {
  * The training objective: negative conditional log-likelihood plus c2·‖w‖² (CRFsuite's L2 form,
  * train_lbfgs.c in the vendored CRFsuite source), with its gradient. The observed feature counts
  * never change, so they are counted once; each evaluation adds the expected counts from
- * forward–backward and subtracts them.
+ * forward–backward and subtracts them. Scores and expectations go through the dataset's units
+ * (see CrfDataset): a token's scores are the sum of its units' score rows, and a feature's
+ * expectation is the sum, over the units holding its attribute, of the marginals those units saw.
  */
 export class CrfObjective {
   readonly size: number;
@@ -21,6 +23,9 @@ export class CrfObjective {
   private readonly state: Float64Array;
   private readonly expTrans: Float64Array;
   private readonly stateCount: number;
+  /** Units × labels: each unit's summed state weights, then the marginals summed over its tokens. */
+  private readonly unitScores: Float64Array;
+  private readonly unitExpected: Float64Array;
 
   constructor(
     private readonly data: CrfDataset,
@@ -38,6 +43,9 @@ export class CrfObjective {
     this.lattice.reserve(longest);
     this.state = new Float64Array(longest * L);
     this.expTrans = new Float64Array(L * L);
+    const units = data.unitStarts.length - 1;
+    this.unitScores = new Float64Array(units * L);
+    this.unitExpected = new Float64Array(units * L);
     this.observed = this.observedCount();
   }
 
@@ -45,24 +53,12 @@ export class CrfObjective {
     const { data, structure } = this;
     const L = structure.labelCount;
     const counts = new Float64Array(this.size);
-    let k = 0;
+    unitRowsToFeatures(structure.featureStarts, structure.featureLabels, L, data.unitStarts, data.unitAttrs, unitLabelCounts(data, L), counts);
     for (let u = 0; u + 1 < data.tokenStarts.length; u++) {
-      const first = data.tokenStarts[u] as number;
       const stop = data.tokenStarts[u + 1] as number;
-      for (let t = first; t < stop; t++) {
-        const y = data.labels[t] as number;
-        const end = data.attrEnds[t] as number;
-        for (; k < end; k++) {
-          const a = data.attrIds[k] as number;
-          const last = structure.featureStarts[a + 1] as number;
-          for (let f = structure.featureStarts[a] as number; f < last; f++) {
-            if (structure.featureLabels[f] === y) counts[f] = (counts[f] as number) + 1;
-          }
-        }
-        if (t > first) {
-          const cell = this.stateCount + (data.labels[t - 1] as number) * L + y;
-          counts[cell] = (counts[cell] as number) + 1;
-        }
+      for (let t = (data.tokenStarts[u] as number) + 1; t < stop; t++) {
+        const cell = this.stateCount + (data.labels[t - 1] as number) * L + (data.labels[t] as number);
+        counts[cell] = (counts[cell] as number) + 1;
       }
     }
     return counts;
@@ -70,46 +66,109 @@ export class CrfObjective {
 
   /** f(w) into the return value, ∇f(w) into `gradient`. */
   evaluate(weights: Float64Array, gradient: Float64Array): number {
-    const { data, structure, lattice, state, expTrans, stateCount } = this;
+    const { data, structure, lattice, state, expTrans, stateCount, unitScores, unitExpected } = this;
+    const { featureStarts, featureLabels } = structure;
+    const { tokenStarts, tokenUnits } = data;
     const L = structure.labelCount;
     for (let c = 0; c < L * L; c++) expTrans[c] = Math.exp(weights[stateCount + c] as number);
+    unitScoresFill(featureStarts, featureLabels, weights, L, data.unitStarts, data.unitAttrs, unitScores);
+    unitExpected.fill(0);
     gradient.fill(0);
-    let loss = 0;
-    for (let u = 0; u + 1 < data.tokenStarts.length; u++) {
-      const first = data.tokenStarts[u] as number;
-      const tokens = (data.tokenStarts[u + 1] as number) - first;
+    let logZSum = 0;
+    for (let u = 0; u + 1 < tokenStarts.length; u++) {
+      const first = tokenStarts[u] as number;
+      const tokens = (tokenStarts[u + 1] as number) - first;
       if (tokens === 0) continue;
-      stateScoresFill(structure.featureStarts, structure.featureLabels, weights, L, data.attrEnds, data.attrIds, first, tokens, state);
-      let gold = 0;
-      for (let t = 0; t < tokens; t++) {
-        const y = data.labels[first + t] as number;
-        gold += state[t * L + y] as number;
-        if (t > 0) gold += weights[stateCount + (data.labels[first + t - 1] as number) * L + y] as number;
-      }
-      const logZ = lattice.run(tokens, state, expTrans, null, gradient, stateCount);
-      loss += logZ - gold;
-      const marginals = lattice.marginals;
-      let k = first === 0 ? 0 : (data.attrEnds[first - 1] as number);
-      for (let t = 0; t < tokens; t++) {
-        const end = data.attrEnds[first + t] as number;
-        const row = t * L;
-        for (; k < end; k++) {
-          const a = data.attrIds[k] as number;
-          const last = structure.featureStarts[a + 1] as number;
-          for (let f = structure.featureStarts[a] as number; f < last; f++) {
-            gradient[f] = (gradient[f] as number) + (marginals[row + (structure.featureLabels[f] as number)] as number);
-          }
-        }
-      }
+      tokenScoresSum(tokenUnits, unitScores, L, first, tokens, state);
+      logZSum += lattice.run(tokens, state, expTrans, null, gradient, stateCount);
+      marginalsToUnits(tokenUnits, lattice.marginals, L, first, tokens, unitExpected);
     }
+    unitRowsToFeatures(featureStarts, featureLabels, L, data.unitStarts, data.unitAttrs, unitExpected, gradient);
+    // The gold paths' total score is Σ observed·w, so no per-token pass over the gold labels is needed.
     const observed = this.observed;
     const twoC2 = 2 * this.c2;
     let norm = 0;
+    let gold = 0;
     for (let i = 0; i < this.size; i++) {
       const w = weights[i] as number;
+      const o = observed[i] as number;
       norm += w * w;
-      gradient[i] = (gradient[i] as number) - (observed[i] as number) + twoC2 * w;
+      gold += o * w;
+      gradient[i] = (gradient[i] as number) - o + twoC2 * w;
     }
-    return loss + this.c2 * norm;
+    return logZSum - gold + this.c2 * norm;
+  }
+}
+
+/** Each unit's row of state scores: Σ over its attributes' features of the weight, at the feature's label. */
+export function unitScoresFill(
+  featureStarts: Int32Array,
+  featureLabels: Uint16Array,
+  weights: Float64Array,
+  labelCount: number,
+  unitStarts: Int32Array,
+  unitAttrs: Int32Array,
+  out: Float64Array,
+): void {
+  out.fill(0);
+  for (let u = 0; u + 1 < unitStarts.length; u++) {
+    const row = u * labelCount;
+    const end = unitStarts[u + 1] as number;
+    for (let k = unitStarts[u] as number; k < end; k++) {
+      const a = unitAttrs[k] as number;
+      const stop = featureStarts[a + 1] as number;
+      for (let f = featureStarts[a] as number; f < stop; f++) {
+        const cell = row + (featureLabels[f] as number);
+        out[cell] = (out[cell] as number) + (weights[f] as number);
+      }
+    }
+  }
+}
+
+/** The reverse of unitScoresFill: add each unit row's value at a feature's label into that feature. */
+function unitRowsToFeatures(
+  featureStarts: Int32Array,
+  featureLabels: Uint16Array,
+  labelCount: number,
+  unitStarts: Int32Array,
+  unitAttrs: Int32Array,
+  rows: Float64Array,
+  out: Float64Array,
+): void {
+  for (let u = 0; u + 1 < unitStarts.length; u++) {
+    const row = u * labelCount;
+    const end = unitStarts[u + 1] as number;
+    for (let k = unitStarts[u] as number; k < end; k++) {
+      const a = unitAttrs[k] as number;
+      const stop = featureStarts[a + 1] as number;
+      for (let f = featureStarts[a] as number; f < stop; f++) {
+        out[f] = (out[f] as number) + (rows[row + (featureLabels[f] as number)] as number);
+      }
+    }
+  }
+}
+
+/** A sequence's state scores (T × L): per token, the sum of its window units' rows. */
+function tokenScoresSum(tokenUnits: Int32Array, unitScores: Float64Array, labelCount: number, firstToken: number, tokenCount: number, out: Float64Array): void {
+  for (let t = 0; t < tokenCount; t++) {
+    const at = (firstToken + t) * CRF_SPAN;
+    const row = t * labelCount;
+    for (let j = 0; j < labelCount; j++) out[row + j] = 0;
+    for (let k = 0; k < CRF_SPAN; k++) {
+      const from = (tokenUnits[at + k] as number) * labelCount;
+      for (let j = 0; j < labelCount; j++) out[row + j] = (out[row + j] as number) + (unitScores[from + j] as number);
+    }
+  }
+}
+
+/** Add each token's marginal row into each of its window units' rows. */
+function marginalsToUnits(tokenUnits: Int32Array, marginals: Float64Array, labelCount: number, firstToken: number, tokenCount: number, out: Float64Array): void {
+  for (let t = 0; t < tokenCount; t++) {
+    const at = (firstToken + t) * CRF_SPAN;
+    const row = t * labelCount;
+    for (let k = 0; k < CRF_SPAN; k++) {
+      const to = (tokenUnits[at + k] as number) * labelCount;
+      for (let j = 0; j < labelCount; j++) out[to + j] = (out[to + j] as number) + (marginals[row + j] as number);
+    }
   }
 }
