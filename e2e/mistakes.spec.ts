@@ -1,7 +1,18 @@
 import AxeBuilder from '@axe-core/playwright';
 import { expect, test, type Page } from '@playwright/test';
-import { readFileSync } from 'node:fs';
-import { identicalFind, slotOutliersFind, variationFind, type LabelledUtterance, type SlotOutlierFinding } from '../src/core/error-detect';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { crfModelToJson, crfSequenceFromUtterance, crfTagger, crfTrain } from '../src/core/crf';
+import {
+  identicalFind,
+  modelDisagreementsFind,
+  slotOutliersFind,
+  variationFind,
+  type LabelledUtterance,
+  type ModelComparedUtterance,
+  type SlotOutlierFinding,
+} from '../src/core/error-detect';
 import { columnsRead } from '../src/core/formats';
 import { findingsAcrossUtterances } from '../src/workers/findings-choose';
 import { watchOrigins } from './helpers';
@@ -13,8 +24,9 @@ const AXE_TAGS = ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'];
  * The reference: the core detectors run in Node over both demo files. Every demo layer is done and
  * there is no gold, so the screen checks every layer of both annotators, as here.
  */
-const pool: LabelledUtterance[] = ['ann-a', 'ann-b'].flatMap((who) =>
-  columnsRead(readFileSync(`sample-corpus/${who}.iob2`)).utterances.map((u) => ({
+const files = ['ann-a', 'ann-b'].map((who) => ({ who, utterances: columnsRead(readFileSync(`sample-corpus/${who}.iob2`)).utterances }));
+const pool: LabelledUtterance[] = files.flatMap(({ who, utterances }) =>
+  utterances.map((u) => ({
     id: u.id ?? '',
     layer: who,
     tokens: u.tokens.map((t) => u.text.slice(t.start, t.end)),
@@ -116,5 +128,50 @@ test('findings of three kinds, ranked; jump to Label; dismiss, undo, reload, sho
   await place.click();
   await expect(page).toHaveURL(new RegExp(`${href.replace(/[?]/g, '\\?')}$`));
   await expect(page.getByRole('main')).toContainText(TOP_OUTLIER?.value ?? '', { timeout: SLOW });
+  expect(foreign).toEqual([]);
+});
+
+test('with a saved model, its confident disagreements are listed too, and open in Label', async ({ page, baseURL }) => {
+  test.setTimeout(240_000);
+  const foreign = watchOrigins(page, baseURL ?? '');
+  // A model trained here in Node on every demo layer (few iterations: enough to be sure of the common cases).
+  const model = await crfTrain(
+    files.flatMap(({ utterances }) => utterances.map((u) => crfSequenceFromUtterance(u))),
+    { maxIterations: 20, seed: 5 },
+  );
+  const file = join(mkdtempSync(join(tmpdir(), 'slotsmith-mistakes-')), 'demo.model.json');
+  writeFileSync(file, crfModelToJson(model));
+  const tagger = crfTagger(model);
+  const compared: ModelComparedUtterance[] = pool.map((u) => {
+    const tagging = tagger.tag(u.tokens);
+    return { ...u, modelTags: tagging.tags, confidences: Array.from(tagging.confidence) };
+  });
+  const disagreements = modelDisagreementsFind(compared);
+  expect(disagreements.length).toBeGreaterThan(0);
+  const top = disagreements[0];
+
+  await demoMistakes(page);
+  await expect(summary(page)).toBeVisible({ timeout: SLOW });
+  await page.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Model' }).click();
+  await page.getByLabel('Load a model file').setInputFiles(file);
+  await expect(page.getByRole('status').filter({ hasText: 'and saved it in the project.' })).toBeVisible();
+  await page.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Likely mistakes' }).click();
+
+  const total = VARIATION + IDENTICAL + OUTLIERS + disagreements.length;
+  await expect(summary(page)).toContainText(`${n(total)} likely mistakes to look at`, { timeout: SLOW });
+  await expect(page.getByText(/^Checked against the model saved in this project \(loaded from a file on /)).toBeVisible();
+  const models = group(page, /^The model is sure of something else/);
+  await expect(models.getByRole('heading')).toHaveText(`The model is sure of something else (${n(disagreements.length)})`);
+  const first = models.locator('li.mistake').first();
+  await expect(first.locator('.mistake-head')).toHaveText(`1. ${top?.tokens.join(' ')}`);
+  await expect(first.getByRole('list', { name: /^Labels given/ }).locator(':scope > li').first()).toContainText(`(at least ${Math.floor((top?.confidence ?? 0) * 100)} % sure)`);
+  await expect(first.getByRole('list', { name: /^Labels given/ }).locator(':scope > li').nth(1)).toContainText(`${top?.location.layer}: `);
+  await page.getByRole('combobox', { name: 'Show' }).selectOption('model-disagreement');
+  const axe = await new AxeBuilder({ page }).withTags(AXE_TAGS).analyze();
+  expect(axe.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.help} (${v.nodes.slice(0, 3).map((x) => x.target.join(' ')).join('; ')})`)).toEqual([]);
+
+  await first.getByRole('link').first().click();
+  await expect(page).toHaveURL(/#\/p\/\d+\/label\?u=\d+$/);
+  await expect(page.getByRole('main')).toContainText(top?.tokens.join(' ') ?? '', { ignoreCase: true, timeout: SLOW });
   expect(foreign).toEqual([]);
 });
