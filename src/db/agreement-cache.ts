@@ -33,6 +33,8 @@ export interface AgreementCache<T> {
   /** The result stored under `key` when the project still has `signature`; otherwise undefined. */
   load: (projectId: number, key: string, signature: CorpusSignature) => Promise<AgreementCacheHit<T> | undefined>;
   save: (projectId: number, key: string, signature: CorpusSignature, result: T) => Promise<void>;
+  /** Drop every result of a deleted project. */
+  forget: (projectId: number) => Promise<void>;
 }
 
 function request<T>(r: IDBRequest<T>): Promise<T> {
@@ -88,6 +90,17 @@ export function agreementCacheOpen<T>(factory: IDBFactory, now: () => number = D
         await done(tx);
       } catch {
         // Only a cache: the next visit computes the figures again.
+      }
+    },
+    async forget(projectId) {
+      try {
+        const db = await open();
+        const tx = db.transaction(STORE, 'readwrite');
+        const store = tx.objectStore(STORE);
+        for (const key of (await request(store.index('projectId').getAllKeys(projectId))) as IDBValidKey[]) store.delete(key);
+        await done(tx);
+      } catch {
+        // Only a cache: results left behind belong to an id no new project gets.
       }
     },
   };

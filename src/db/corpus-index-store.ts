@@ -19,6 +19,8 @@ interface Stored {
 export interface CorpusIndexStore {
   load: (projectId: number) => Promise<CorpusIndex | undefined>;
   save: (index: CorpusIndex) => Promise<void>;
+  /** Drop the copy of a deleted project. */
+  forget: (projectId: number) => Promise<void>;
 }
 
 function request<T>(r: IDBRequest<T>): Promise<T> {
@@ -63,6 +65,19 @@ export function corpusIndexStoreOpen(factory: IDBFactory): CorpusIndexStore {
         });
       } catch {
         // Only a cache: the next visit builds the index again.
+      }
+    },
+    async forget(projectId) {
+      try {
+        const db = await open();
+        const tx = db.transaction(STORE, 'readwrite');
+        tx.objectStore(STORE).delete(projectId);
+        await new Promise<void>((resolve, reject) => {
+          tx.oncomplete = () => resolve();
+          tx.onerror = () => reject(tx.error);
+        });
+      } catch {
+        // Only a cache: a copy left behind belongs to an id no new project gets.
       }
     },
   };

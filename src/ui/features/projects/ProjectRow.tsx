@@ -1,6 +1,7 @@
 import { useLiveQuery } from 'dexie-react-hooks';
 import { useState, type FormEvent } from 'react';
 import { projectDelete, projectRename, utteranceCount, type ProjectRow as Project } from '../../../db';
+import { projectCachesForget } from '../../../db/project-caches';
 import { appDb } from '../../app/db';
 
 type Mode = 'show' | 'rename' | 'confirm-delete';
@@ -26,6 +27,7 @@ export function ProjectRow({ project, onOpen }: { project: Project; onOpen: (id:
   async function remove() {
     try {
       await projectDelete(appDb(), project.id);
+      await projectCachesForget(indexedDB, project.id);
     } catch (caught) {
       setError((caught as Error).message);
       setMode('show');

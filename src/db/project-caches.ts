@@ -1,0 +1,10 @@
+/**
+ * The per-project caches kept beside the app's database (the utterance table's index, the agreement
+ * dashboard's results): dropped with their project, so deleting a project leaves nothing of it behind.
+ */
+import { agreementCacheOpen } from './agreement-cache';
+import { corpusIndexStoreOpen } from './corpus-index-store';
+
+export async function projectCachesForget(factory: IDBFactory, projectId: number): Promise<void> {
+  await Promise.all([corpusIndexStoreOpen(factory).forget(projectId), agreementCacheOpen(factory).forget(projectId)]);
+}
