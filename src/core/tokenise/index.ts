@@ -1,2 +1,3 @@
 export * from './offsets';
 export * from './tokenise';
+export * from './stops';

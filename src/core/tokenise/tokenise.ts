@@ -1,8 +1,10 @@
 import type { Token } from '../types';
+import { textStopCuts } from './stops';
 
 /**
  * How an utterance text becomes tokens. `words` follows Unicode word segmentation (UAX #29) via
- * `Intl.Segmenter`, keeps punctuation as tokens and drops whitespace; `whitespace` splits on runs of
+ * `Intl.Segmenter`, keeps punctuation as tokens and drops whitespace, and always splits at a full
+ * stop or colon outside numbers, where engines disagree (stops.ts); `whitespace` splits on runs of
  * Unicode White_Space; `regex` takes each non-empty match of a user pattern as a token.
  *
  * Every kind then applies one rule so that no token is invisible: whitespace at a token's edges is
@@ -33,10 +35,23 @@ let graphemeSegmenter: Intl.Segmenter | undefined;
 /** Texts longer than this are segmented piece by piece (see `wordSegmentsChunked`). */
 export const WORD_SEGMENT_CHUNK = 1024;
 
-function segmentsPush(text: string, offset: number, out: Token[]): void {
+function segmentsPushRaw(text: string, offset: number, out: Token[]): void {
   wordSegmenter ??= new Intl.Segmenter('und', { granularity: 'word' });
   for (const { segment, index } of wordSegmenter.segment(text)) {
     out.push({ start: offset + index, end: offset + index + segment.length });
+  }
+}
+
+const STOP_ANY = /[.:\uFE55\uFF0E\uFF1A]/;
+
+/** UAX #29 segments, with the text cut before full stops and colons so every engine agrees (see stops.ts). */
+function segmentsPush(text: string, offset: number, out: Token[]): void {
+  const cuts = STOP_ANY.test(text) ? textStopCuts(text) : [];
+  if (cuts.length === 0) return segmentsPushRaw(text, offset, out);
+  let from = 0;
+  for (const cut of [...cuts, text.length]) {
+    segmentsPushRaw(text.slice(from, cut), offset + from, out);
+    from = cut;
   }
 }
 
@@ -65,7 +80,10 @@ export function wordSegmentsChunked(text: string, chunk: number): Token[] {
   return out;
 }
 
-/** Raw UAX #29 word segments (whitespace runs included), as [start, end) UTF-16 offsets. */
+/**
+ * UAX #29 word segments (whitespace runs included), as [start, end) UTF-16 offsets, with our one
+ * departure: a full stop or colon is a segment of its own except between digits (see stops.ts).
+ */
 export function wordSegments(text: string): Token[] {
   return wordSegmentsChunked(text, WORD_SEGMENT_CHUNK);
 }
