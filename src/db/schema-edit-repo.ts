@@ -110,8 +110,10 @@ async function schemaEditApply(
   schemaNext: (schema: ProjectSchema) => ProjectSchema,
   edit: LayerEdit,
   options: SchemaEditOptions,
+  /** An intent rename also renames the intent read from the file on utterances nobody has labelled. */
+  hint?: { from: string; to: string },
 ): Promise<SchemaEditReport> {
-  return dbWrite(db, [db.projects, db.layers, db.history], async () => {
+  return dbWrite(db, [db.projects, db.layers, db.history, db.utterances], async () => {
     const project = await db.projects.get(projectId);
     if (project === undefined) throw new RecordMissingError('project', projectId);
     const schema = schemaNext(project.schema);
@@ -134,6 +136,14 @@ async function schemaEditApply(
       await db.layers.bulkPut(changed);
       await db.history.bulkAdd(history as HistoryRow[]);
     });
+    if (hint !== undefined) {
+      await db.utterances
+        .where('[projectId+seq]')
+        .between([projectId, Dexie.minKey], [projectId, Dexie.maxKey])
+        .modify((u) => {
+          if (u.intentHint === hint.from) u.intentHint = hint.to;
+        });
+    }
     const next: ProjectRow = { ...project, schema, updated: now };
     await db.projects.put(next);
     return { ...usageDone(usage), project: next };
@@ -192,7 +202,10 @@ export function slotDelete(db: SlotsmithDb, projectId: number, slot: string, opt
   );
 }
 
-/** Rename an intent in the schema (slots' allowed lists included) and in every layer that has it. */
+/**
+ * Rename an intent in the schema (slots' allowed lists included), in every layer that has it, and where
+ * it is the file's intent of an utterance nobody has labelled yet (so table filters keep finding it).
+ */
 export function intentRename(db: SlotsmithDb, projectId: number, from: string, to: string, options: SchemaEditOptions): Promise<SchemaEditReport> {
   return schemaEditApply(
     db,
@@ -211,6 +224,7 @@ export function intentRename(db: SlotsmithDb, projectId: number, from: string, t
       return row.intent === from ? { change: { intent: to }, spans: 0 } : null;
     },
     options,
+    { from, to },
   );
 }
 

@@ -164,6 +164,22 @@ describe('intent rename and delete', () => {
     await expect(intentRename(db, projectId, 'book', ' book', WHO)).rejects.toThrow(/start or end/);
   });
 
+  it('renames the file’s intent of utterances nobody labelled, in this project only', async () => {
+    const db = dbTest();
+    const { projectId, otherId } = await seed(db);
+    // Imported without an annotator: the file's intents are kept on the utterances as hints.
+    const hinted = [
+      utteranceMake('gutter needs clearing on Tuesday', undefined, { id: 'hr-h1', intent: 'book_visit' }),
+      utteranceMake('what does a gutter clean cost', undefined, { id: 'hr-h2', intent: 'ask_price' }),
+    ];
+    for (const id of [projectId, otherId]) await batchAppend(db, await batchBegin(db, id, { fileName: 'hints.iob', format: 'columns' }), { utterances: hinted });
+    const hints = async (id: number) => (await db.utterances.toArray()).filter((u) => u.projectId === id && u.intentHint !== undefined).map((u) => u.intentHint);
+    expect(await hints(projectId)).toEqual(['book_visit', 'ask_price']);
+    await intentRename(db, projectId, 'book_visit', 'book', WHO);
+    expect(await hints(projectId)).toEqual(['book', 'ask_price']);
+    expect(await hints(otherId)).toEqual(['book_visit', 'ask_price']);
+  });
+
   it('deletes the intent: layers lose it, slots no longer list it', async () => {
     const db = dbTest();
     const { projectId } = await seed(db);
