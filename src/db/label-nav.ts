@@ -89,8 +89,11 @@ async function scanIds(db: SlotsmithDb, projectId: number, annotator: string, id
 
 /**
  * "Next not started", least sure first: the utterances of `order` (the model's least sure first),
- * then the others in project order, as one ring; the first one after `current` (null: from the
- * top) that `annotator` has not started. Wraps round once like `labelNextUnlabelled`.
+ * then the others in project order. From one of the model's utterances it goes on down that list
+ * (then the rest, then round to the top), so passing one over moves on; from any other utterance
+ * (or none) the least sure not-started one comes first, so switching the order on takes effect at
+ * the next step. Passing an utterance over without any edit may bring it back; marking it skipped
+ * does not. Undefined when `annotator` has started everything.
  */
 export async function labelNextUncertain(db: SlotsmithDb, projectId: number, annotator: string, order: UncertainOrder, current: UtteranceRow | null): Promise<UtteranceRow | undefined> {
   const { ids, at } = order;
@@ -100,5 +103,5 @@ export async function labelNextUncertain(db: SlotsmithDb, projectId: number, ann
   if (current === null) return (await head(0, ids.length)) ?? tail(null, null);
   const i = at.get(current.id);
   if (i !== undefined) return (await head(i + 1, ids.length)) ?? (await tail(null, null)) ?? head(0, i + 1);
-  return (await tail(current.seq, null)) ?? (await head(0, ids.length)) ?? tail(null, current.seq);
+  return (await head(0, ids.length)) ?? (await tail(current.seq, null)) ?? tail(null, current.seq);
 }

@@ -70,10 +70,18 @@ describe('labelNextUncertain', () => {
     const [u0, u1, u2, u3, u4, u5] = ids as [number, number, number, number, number, number];
     await layerPut(db, projectId, u4, 'model', 'draft', '0.3');
     await layerPut(db, projectId, u1, 'model', 'draft', '0.9');
-    // From the top: the least sure first.
-    expect(await walk(db, projectId, 'ann-c', null, 8)).toEqual([u1, u4, u0, u2, u3, u5, u1, u4]);
-    // From an utterance outside the model's list: on in project order, then round to the list.
-    expect(await walk(db, projectId, 'ann-c', await row(db, u2), 4)).toEqual([u3, u5, u1, u4]);
+    // From the top: the least sure first, then the rest in project order.
+    expect(await walk(db, projectId, 'ann-c', null, 3)).toEqual([u1, u4, u0]);
+    const order = await labelUncertainOrder(db, projectId);
+    // From an utterance outside the model's list: the least sure not started comes first.
+    expect((await labelNextUncertain(db, projectId, 'ann-c', order, await row(db, u3)))?.id).toBe(u1);
+    // Down the model's list, then the rest from the start.
+    expect((await labelNextUncertain(db, projectId, 'ann-c', order, await row(db, u1)))?.id).toBe(u4);
+    expect((await labelNextUncertain(db, projectId, 'ann-c', order, await row(db, u4)))?.id).toBe(u0);
+    // Once the model's utterances are started, the rest go on in project order and wrap round.
+    await layerPut(db, projectId, u1, 'ann-c', 'done');
+    await layerPut(db, projectId, u4, 'ann-c', 'draft');
+    expect(await walk(db, projectId, 'ann-c', await row(db, u2), 5)).toEqual([u3, u5, u0, u2, u3]);
   });
 
   it('skips what the labeller started (any status but unlabelled) and ends when nothing is left', async () => {

@@ -310,8 +310,11 @@ export function LabelScreen({ projectId, profile }: { projectId: number; profile
           </label>
         )}
         <label>
-          <input type="checkbox" checked={blind} onChange={(e) => blindSet(e.target.checked)} /> Blind labelling (hide other layers; model suggestions still show)
+          <input type="checkbox" checked={blind} onChange={(e) => blindSet(e.target.checked)} aria-describedby="label-blind-hint" /> Blind labelling (hide other layers)
         </label>
+        <span id="label-blind-hint" className="muted">
+          Model suggestions still show: the model is not another annotator.
+        </span>
       </div>
       <OrderChoice uncertain={uncertain} scored={uncertainOrder?.ids.length} onChange={orderChange} />
 

@@ -133,9 +133,11 @@ export const TokenStrip = forwardRef<HTMLDivElement, TokenStripProps>(function T
     const next = tokens[i + 1];
     const gap = text.slice(token.end, next === undefined ? text.length : next.start);
     const inside = span !== undefined && span.end > i + 1;
+    const insideSuggestion = suggestion !== undefined && suggestion.end > i + 1;
     if (gap !== '' || next !== undefined) {
+      const gapClass = ['label-gap', gap === '' && 'label-gap-none', insideSuggestion && 'suggested-gap'].filter(Boolean).join(' ');
       pieces.push(
-        <span key={`g${i}`} className={gap === '' ? 'label-gap label-gap-none' : 'label-gap'} aria-hidden="true" style={inside && style !== undefined ? { background: style.background } : undefined}>
+        <span key={`g${i}`} className={gapClass} aria-hidden="true" style={inside && style !== undefined ? { background: style.background } : undefined}>
           {gap}
         </span>,
       );
