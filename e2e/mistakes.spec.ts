@@ -97,6 +97,7 @@ test('findings of three kinds, ranked; jump to Label; dismiss, undo, reload, sho
   await expect(outliers.getByRole('heading')).toHaveText(`A value under an unusual slot (${n(OUTLIERS - 1)}, 1 dismissed)`);
   await page.getByRole('button', { name: 'Undo' }).click();
   await expect(outliers.getByRole('heading')).toHaveText(`A value under an unusual slot (${n(OUTLIERS)})`);
+  await expect(page.getByText(`Brought back unusual slot “${TOP_OUTLIER?.value}”.`)).toBeFocused();
   await page.getByRole('button', { name: `Dismiss ${name}` }).click();
   await expect(summary(page)).toContainText(`${n(total - 1)} likely mistakes to look at (1 dismissed)`);
   await expect(page.getByRole('button', { name: `Dismiss ${name}` })).toHaveCount(0);

@@ -39,6 +39,7 @@ export function MistakesView({ projectId }: ProjectViewProps) {
   const [busy, setBusy] = useState(false);
   const [message, setMessage] = useState<{ text: string; error: boolean; undo: FindingItem | null } | null>(null);
   const undoButton = useRef<HTMLButtonElement>(null);
+  const messageLine = useRef<HTMLParagraphElement>(null);
   const job = useRef<WorkerJob<FindingsScan> | null>(null);
 
   useEffect(() => {
@@ -60,9 +61,13 @@ export function MistakesView({ projectId }: ProjectViewProps) {
     };
   }, [projectId, scanRound]);
 
-  // After a dismissal the card may leave the list: keep keyboard focus on its undo instead of losing it.
+  // After a dismissal the card may leave the list, and after an undo the button itself goes: keep
+  // keyboard focus on the undo, then on the message, instead of dropping it to the page.
+  const focusNext = useRef<'undo' | 'message' | null>(null);
   useEffect(() => {
-    if (message !== null && message.undo !== null) undoButton.current?.focus();
+    if (focusNext.current === 'undo') undoButton.current?.focus();
+    else if (focusNext.current === 'message') messageLine.current?.focus();
+    focusNext.current = null;
   }, [message]);
 
   const dismissed = useMemo(() => new Set(project ? Object.keys(dismissalsOf(project)) : []), [project]);
@@ -82,6 +87,7 @@ export function MistakesView({ projectId }: ProjectViewProps) {
     setBusy(true);
     try {
       await findingsDismiss(appDb(), projectId, [item.key], profile?.id ?? null);
+      focusNext.current = 'undo';
       setMessage({ text: `Dismissed ${KIND_TEXT[item.finding.kind].short} “${findingHeadline(item.finding)}”.`, error: false, undo: item });
     } catch (error) {
       setMessage({ text: `Not dismissed: ${(error as Error).message}`, error: true, undo: null });
@@ -90,10 +96,11 @@ export function MistakesView({ projectId }: ProjectViewProps) {
     }
   }
 
-  async function restore(item: FindingItem) {
+  async function restore(item: FindingItem, fromUndo = false) {
     setBusy(true);
     try {
       await findingsRestore(appDb(), projectId, [item.key]);
+      if (fromUndo) focusNext.current = 'message';
       setMessage({ text: `Brought back ${KIND_TEXT[item.finding.kind].short} “${findingHeadline(item.finding)}”.`, error: false, undo: null });
     } catch (error) {
       setMessage({ text: `Not brought back: ${(error as Error).message}`, error: true, undo: null });
@@ -141,7 +148,7 @@ export function MistakesView({ projectId }: ProjectViewProps) {
         )}
         {scan !== null && <p className={scan.model.kind === 'used' ? 'mistakes-model' : 'mistakes-model is-skipped'}>{modelText(scan.model)}</p>}
         {message !== null && (
-          <p className={message.error ? 'error' : 'mistakes-done'}>
+          <p className={message.error ? 'error' : 'mistakes-done'} ref={messageLine} tabIndex={-1}>
             {message.text}{' '}
             {message.undo !== null && (
               <button
@@ -149,7 +156,7 @@ export function MistakesView({ projectId }: ProjectViewProps) {
                 ref={undoButton}
                 disabled={busy}
                 onClick={() => {
-                  if (message.undo !== null) void restore(message.undo);
+                  if (message.undo !== null) void restore(message.undo, true);
                 }}
               >
                 Undo
