@@ -135,15 +135,17 @@ test('suggestions: accept and reject by key and mouse, accept all, undo, reload;
   expect(model).toHaveLength(FRESH.length);
   const spansOf = new Map(model.map((l) => [l.utteranceId, spansFromTags(l.tags)]));
   const byCount = [...model].sort((x, y) => (spansOf.get(y.utteranceId)?.length ?? 0) - (spansOf.get(x.utteranceId)?.length ?? 0) || x.utteranceId - y.utteranceId);
-  const [first, second] = byCount;
-  if (first === undefined || second === undefined) throw new Error('no model layers');
+  const [first, second, third] = byCount;
+  if (first === undefined || second === undefined || third === undefined) throw new Error('no model layers');
   // The quick model must have found something: at least two spans in one request, one in another.
   const spansA = spansOf.get(first.utteranceId) as Span[];
   const spansB = spansOf.get(second.utteranceId) as Span[];
   expect(spansA.length).toBeGreaterThanOrEqual(2);
   expect(spansB.length).toBeGreaterThanOrEqual(1);
-  const [rowA, rowB] = await utterancesOf(page, [first.utteranceId, second.utteranceId]);
-  if (rowA?.id !== first.utteranceId || rowB?.id !== second.utteranceId) throw new Error('utterances not read back');
+  const spansC = spansOf.get(third.utteranceId) as Span[];
+  expect(spansC.length).toBeGreaterThanOrEqual(1);
+  const [rowA, rowB, rowC] = await utterancesOf(page, [first.utteranceId, second.utteranceId, third.utteranceId]);
+  if (rowA?.id !== first.utteranceId || rowB?.id !== second.utteranceId || rowC?.id !== third.utteranceId) throw new Error('utterances not read back');
   const [accepted, rejected] = spansA as [Span, Span];
 
   // Utterance A: suggestions show dashed and marked, in blind mode too, and do not count as work.
@@ -177,6 +179,30 @@ test('suggestions: accept and reject by key and mouse, accept all, undo, reload;
   expect(spansFromTags(ownA?.tags ?? [])).toEqual([{ start: accepted.start, end: accepted.end, slot: accepted.slot }]);
   expect(ownA?.status).toBe('draft');
   expect(transitionsValidate(ownA?.tags ?? [], 'iob2')).toEqual([]);
+
+  // The keys are in the help overlay.
+  await page.keyboard.press('?');
+  const help = page.getByRole('dialog', { name: 'Keys of the label screen' });
+  for (const keys of ['Shift+A', 'Shift+R', 'Shift+Y', 'Shift+X']) await expect(help.getByRole('row').filter({ hasText: keys }).filter({ hasText: 'suggestion' })).toHaveCount(1);
+  await page.keyboard.press('Escape');
+  await expect(help).toBeHidden();
+
+  // Utterance C: Shift+R rejects the suggestion at the selection, Shift+X the rest; rejecting writes no
+  // layer (it is not labelling work), and "show again" brings every one back.
+  await page.goto(`/#/p/${projectId}/label?u=${rowC.id}`);
+  await expect(panel(page).getByRole('listitem')).toHaveCount(spansC.length);
+  await tokens(page).focus();
+  await page.keyboard.press('End');
+  await page.keyboard.press('Shift+R');
+  await expect(panel(page).getByRole('listitem')).toHaveCount(spansC.length - 1);
+  const lastC = spansC[spansC.length - 1] as Span;
+  await expect(tokenAt(page, lastC.start)).toHaveAttribute('aria-label', word(rowC, lastC.start));
+  await page.keyboard.press('Shift+X');
+  await expect(panel(page).getByText('No suggestion left for this utterance.')).toBeVisible();
+  await expect(page.getByText('Not started yet.')).toBeVisible();
+  expect((await layersOf(page, 'lead')).find((l) => l.utteranceId === rowC.id)).toBeUndefined();
+  await panel(page).getByRole('button', { name: 'Show rejected suggestions again' }).click();
+  await expect(panel(page).getByRole('listitem')).toHaveCount(spansC.length);
 
   // Utterance B: accept all with Shift+Y, one undo step takes them all back, redo brings them again.
   await page.goto(`/#/p/${projectId}/label?u=${rowB.id}`);
