@@ -131,29 +131,57 @@ export async function disagreementGet(db: SlotsmithDb, utteranceId: number, a: s
 
 const CHUNK = 1000;
 
-/** Counts over the whole project, read a slice of A's layers at a time. */
-export async function disagreementSummary(db: SlotsmithDb, projectId: number, a: string, b: string): Promise<DisagreementSummary> {
+/** Where two annotators' layers disagree: the expensive part of the progress, free of gold. */
+export interface DisagreementSet {
+  shared: number;
+  /** Utterance ids, ascending. */
+  disagreeing: Int32Array;
+}
+
+/** Compare A's and B's layers over the project, a slice of A's layers at a time (gold is not read). */
+export async function disagreementSet(db: SlotsmithDb, projectId: number, a: string, b: string): Promise<DisagreementSet> {
   const { minKey, maxKey } = Dexie;
   return db.transaction('r', [db.layers], async () => {
     const keys = await db.layers.where('[projectId+annotator+status]').between([projectId, a, minKey], [projectId, a, maxKey]).primaryKeys();
-    const summary: DisagreementSummary = { shared: 0, disagreeing: 0, resolved: 0 };
+    keys.sort((x, y) => x[0] - y[0]);
+    let shared = 0;
+    const disagreeing: number[] = [];
     for (let i = 0; i < keys.length; i += CHUNK) {
       const slice = keys.slice(i, i + CHUNK);
       const ids = slice.map(([id]) => id);
-      const [layersA, layersB, gold] = await Promise.all([
-        db.layers.bulkGet(slice),
-        db.layers.bulkGet(ids.map((id): LayerKey => [id, b])),
-        db.layers.bulkGet(ids.map((id): LayerKey => [id, ANNOTATOR_GOLD])),
-      ]);
+      const [layersA, layersB] = await Promise.all([db.layers.bulkGet(slice), db.layers.bulkGet(ids.map((id): LayerKey => [id, b]))]);
       layersA.forEach((la, j) => {
         const lb = layersB[j];
         if (la === undefined || lb === undefined) return;
-        summary.shared++;
-        if (layersDisagreement(la, lb) === null) return;
-        summary.disagreeing++;
-        if (gold[j]?.status === 'done') summary.resolved++;
+        shared++;
+        if (layersDisagreement(la, lb) !== null) disagreeing.push(ids[j] as number);
       });
     }
-    return summary;
+    return { shared, disagreeing: Int32Array.from(disagreeing) };
   });
+}
+
+/** Utterance ids whose gold layer is done, ascending: index keys only, no rows read. */
+export async function goldDoneIds(db: SlotsmithDb, projectId: number): Promise<Int32Array> {
+  const keys = await db.layers.where('[projectId+annotator+status]').equals([projectId, ANNOTATOR_GOLD, 'done']).primaryKeys();
+  return Int32Array.from(keys, ([id]) => id).sort();
+}
+
+/** The progress from its two parts (both ascending): a merge, no lookups. */
+export function summaryFrom(set: DisagreementSet, goldDone: Int32Array): DisagreementSummary {
+  let resolved = 0;
+  let g = 0;
+  for (const id of set.disagreeing) {
+    while (g < goldDone.length && (goldDone[g] as number) < id) g++;
+    if (goldDone[g] === id) resolved++;
+  }
+  return { shared: set.shared, disagreeing: set.disagreeing.length, resolved };
+}
+
+/**
+ * Counts over the whole project. A screen should watch `disagreementSet` and `goldDoneIds` apart
+ * (see ResolveView): a gold save then re-reads only gold's index keys, not every layer of A and B.
+ */
+export async function disagreementSummary(db: SlotsmithDb, projectId: number, a: string, b: string): Promise<DisagreementSummary> {
+  return summaryFrom(await disagreementSet(db, projectId, a, b), await goldDoneIds(db, projectId));
 }

@@ -1,8 +1,8 @@
 import { useLiveQuery } from 'dexie-react-hooks';
-import { useEffect, useState } from 'react';
+import { useEffect, useMemo, useState } from 'react';
 import { ANNOTATORS_RESERVED } from '../../../core/backup/model';
 import { annotatorList, projectGet } from '../../../db';
-import { disagreementStep, disagreementSummary } from '../../../db/adjudication-repo';
+import { disagreementSet, disagreementStep, goldDoneIds, summaryFrom } from '../../../db/adjudication-repo';
 import { useNav } from '../../../state/nav';
 import { useSession } from '../../../state/session';
 import { appDb } from '../../app/db';
@@ -30,7 +30,11 @@ export function ResolveView({ projectId }: ProjectViewProps) {
   const a = query.a ?? humans[0] ?? '';
   const b = query.b ?? humans.find((id) => id !== a) ?? '';
   const ready = a !== '' && b !== '' && a !== b;
-  const summary = useLiveQuery(() => (ready ? disagreementSummary(db, projectId, a, b) : undefined), [projectId, a, b, ready]);
+  // Two watches: a gold save re-reads gold's index keys only; comparing A and B (every layer of both)
+  // runs again only when one of their layers changes.
+  const disagreeing = useLiveQuery(() => (ready ? disagreementSet(db, projectId, a, b) : undefined), [projectId, a, b, ready]);
+  const goldDone = useLiveQuery(() => goldDoneIds(db, projectId), [projectId]);
+  const summary = useMemo(() => (disagreeing === undefined || goldDone === undefined ? undefined : summaryFrom(disagreeing, goldDone)), [disagreeing, goldDone]);
   const uId = query.u === undefined ? null : Number(query.u);
   const [searching, setSearching] = useState<'idle' | 'none'>('idle');
   // Arriving from the next utterance (going back) starts at its last disagreement.
