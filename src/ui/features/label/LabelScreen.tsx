@@ -10,6 +10,7 @@ import { useSession, type Profile } from '../../../state/session';
 import { appDb } from '../../app/db';
 import { ConflictPrompt } from './ConflictPrompt';
 import { HelpOverlay } from './HelpOverlay';
+import { LabelWho } from './LabelWho';
 import { LayerFields } from './LayerFields';
 import { OrderChoice } from './OrderChoice';
 import { OtherLayers } from './OtherLayers';
@@ -300,22 +301,14 @@ export function LabelScreen({ projectId, profile }: { projectId: number; profile
           </button>
         </div>
       </div>
-      <div className="label-bar">
-        <p>
-          Labelling as <strong>{profile.name}</strong>, into the layer <code>{layerName}</code>.
-        </p>
-        {adjudicator && (
-          <label>
-            <input type="checkbox" checked={layerName === ANNOTATOR_GOLD} onChange={(e) => go('label', projectId, { ...query, layer: e.target.checked ? ANNOTATOR_GOLD : '' })} /> Write the gold layer
-          </label>
-        )}
-        <label>
-          <input type="checkbox" checked={blind} onChange={(e) => blindSet(e.target.checked)} aria-describedby="label-blind-hint" /> Blind labelling (hide other layers)
-        </label>
-        <span id="label-blind-hint" className="muted">
-          Model suggestions still show: the model is not another annotator.
-        </span>
-      </div>
+      <LabelWho
+        name={profile.name}
+        layerName={layerName}
+        adjudicator={adjudicator}
+        blind={blind}
+        onGold={(gold) => go('label', projectId, { ...query, layer: gold ? ANNOTATOR_GOLD : '' })}
+        onBlind={blindSet}
+      />
       <OrderChoice uncertain={uncertain} scored={uncertainOrder?.ids.length} onChange={orderChange} />
 
       {view.newer !== null && shown !== null && (
