@@ -1,6 +1,7 @@
 /**
  * Backup and restore of whole projects through the core codec (src/core/backup). Backups refer to
- * utterances by seq and batches by position, so a restored project backs up to the same bytes.
+ * utterances by seq and batches by position, so a restored project backs up to the same bytes; the
+ * project row's extras (exchange, model, dismissed findings) go along in the project record.
  */
 import Dexie from 'dexie';
 import {
@@ -12,14 +13,31 @@ import {
   backupLayerEncode,
   backupProjectEncode,
   backupUtteranceEncode,
+  dismissalsRenamed,
   type BackupData,
+  type BackupDismissal,
+  type BackupExchange,
+  type BackupModel,
+  type BackupProject,
   type BackupUtterance,
   type BatchInfo,
 } from '../core/backup';
 import type { ReadError } from '../core/types';
 import { BatchStateError, dbWrite, RecordMissingError } from './errors';
+import type { ProjectExchange } from './exchange-repo';
+import type { Dismissal } from './findings-repo';
 import { layerContent } from './layer-repo';
-import { dbTablesAll, type BatchRow, type HistoryRow, type LayerRow, type SlotsmithDb, type UtteranceRow } from './schema';
+import type { StoredModel } from './model-repo';
+import { dbTablesAll, type BatchRow, type HistoryRow, type LayerRow, type ProjectRow, type SlotsmithDb, type UtteranceRow } from './schema';
+
+/** The project row as the other stores leave it: their extras are the backup's (checked just below). */
+type ProjectRowFull = ProjectRow & Pick<BackupProject, 'exchange' | 'model' | 'dismissed'>;
+
+// The core keeps its own copies of these shapes (it may not import src/db): if a store changes its
+// shape without the backup, this no longer compiles.
+type Same<A, B> = [A] extends [B] ? ([B] extends [A] ? true : false) : false;
+const SHAPES_AGREE: [Same<ProjectExchange, BackupExchange>, Same<StoredModel, BackupModel>, Same<Dismissal, BackupDismissal>] = [true, true, true];
+void SHAPES_AGREE;
 
 export interface BackupFile {
   fileName: string;
@@ -61,7 +79,7 @@ export async function backupMake(db: SlotsmithDb, projectId: number): Promise<Ba
     if (batches.some((b) => b.state === 'importing')) throw new BatchStateError('An import into this project is still running; back up when it has finished.');
     const batchPosition = new Map(batches.map((b, i) => [b.id, i + 1]));
 
-    const body: string[] = [backupProjectEncode(project)];
+    const body: string[] = [''];
     for (const a of annotators) body.push(backupAnnotatorEncode({ id: a.id, name: a.name, role: a.role }));
     for (const b of batches) body.push(backupBatchEncode(batchInfo(b)));
 
@@ -74,6 +92,10 @@ export async function backupMake(db: SlotsmithDb, projectId: number): Promise<Ba
         body.push(backupUtteranceEncode(utteranceInfo(row, batchPosition)));
       });
     const utteranceCount = seqOf.size;
+    // A dismissal naming an utterance no longer in the project can never match again: left out.
+    const { dismissed, ...row } = project as ProjectRowFull;
+    const backupProject: BackupProject = dismissed === undefined ? row : { ...row, dismissed: dismissalsRenamed(dismissed, (id) => seqOf.get(id)) };
+    body[0] = backupProjectEncode(backupProject);
 
     const layerRows = await db.layers.where('[projectId+annotator+status]').between([projectId, minKey, minKey], [projectId, maxKey, maxKey]).toArray();
     const layers = layerRows.map((row: LayerRow) => ({ seq: seqOf.get(row.utteranceId) ?? 0, row }));
@@ -117,7 +139,8 @@ export interface BackupStoreOptions {
 export async function backupStore(db: SlotsmithDb, data: BackupData, options: BackupStoreOptions = {}): Promise<{ projectId: number; name: string }> {
   return dbWrite(db, dbTablesAll(db), async () => {
     const name = options.name ?? restoreNameFree(data.project.name, new Set((await db.projects.toArray()).map((p) => p.name)));
-    const projectId = await db.projects.add({ ...data.project, name });
+    const { dismissed, ...project } = data.project;
+    const projectId = await db.projects.add({ ...project, name } as ProjectRowFull);
     await db.annotators.bulkAdd(data.annotators.map((a) => ({ ...a, projectId })));
     const batchIds = await db.batches.bulkAdd(
       data.batches.map((b) => ({ ...b, projectId }) as BatchRow),
@@ -136,6 +159,10 @@ export async function backupStore(db: SlotsmithDb, data: BackupData, options: Ba
     });
     const ids = await db.utterances.bulkAdd(rows, { allKeys: true });
     const idOf = new Map(utterances.map((u, i) => [u.seq, ids[i] as number]));
+    if (dismissed !== undefined) {
+      // The decoder dropped keys naming seqs not in the backup, so each one finds its new id.
+      await db.projects.put({ ...project, name, id: projectId, dismissed: dismissalsRenamed(dismissed, (seq) => idOf.get(seq)) } as ProjectRowFull);
+    }
     await db.layers.bulkAdd(
       data.layers.map(({ seq, batch, ...layer }) => {
         const row: LayerRow = { ...layer, utteranceId: idOf.get(seq) as number, projectId };

@@ -114,7 +114,7 @@ describe('backup and restore', () => {
     await projectCreate(db, { name: 'kept' });
     const before = await dbDump(db);
     const newer = '{"format":"slotsmith-backup","formatVersion":7,"created":"2031-01-01T00:00:00.000Z"}\n';
-    expect(await backupRestore(db, newer)).toEqual({ ok: false, errors: [{ line: 1, message: 'made by a newer Slotsmith (format 7); this version reads up to 1' }] });
+    expect(await backupRestore(db, newer)).toEqual({ ok: false, errors: [{ line: 1, message: 'made by a newer Slotsmith (format 7); this version reads up to 2' }] });
     const broken = source.replace('"seq":2', '"seq":"two"');
     const result = await backupRestore(db, broken);
     expect(result.ok).toBe(false);

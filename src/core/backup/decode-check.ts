@@ -6,11 +6,12 @@ import {
   type BackupData,
   type BackupHistory,
   type BackupLayer,
+  type BackupProject,
   type BackupUtterance,
   type BatchInfo,
   type LayerContent,
-  type ProjectInfo,
 } from './model';
+import { dismissalsRenamed } from './dismissed';
 
 interface Read<T> {
   line: number;
@@ -18,7 +19,7 @@ interface Read<T> {
 }
 
 export interface RecordsRead {
-  projects: Read<ProjectInfo>[];
+  projects: Read<BackupProject>[];
   annotators: Read<AnnotatorInfo>[];
   batches: Read<BatchInfo>[];
   utterances: Read<BackupUtterance>[];
@@ -101,5 +102,13 @@ export function backupCheck(read: RecordsRead, issues: Issues, lastLine: number)
   }
 
   if (first === undefined || first.record === null || issues.errors.length > errorsBefore) return null;
-  return { project: first.record, annotators, batches, utterances, layers, history };
+  let project = first.record;
+  if (project.dismissed !== undefined) {
+    // Harmless but unusable, as a dangling batch reference: dropped with a warning.
+    const dropped = (key: string) => warn(first.line, `dismissed finding ${JSON.stringify(key)} names an utterance seq that is not in the backup; dropped`);
+    const { dismissed: listed, ...rest } = project;
+    const dismissed = dismissalsRenamed(listed, (seq) => (tokenCount.has(seq) ? seq : null), dropped);
+    project = Object.keys(dismissed).length === 0 ? rest : { ...rest, dismissed };
+  }
+  return { project, annotators, batches, utterances, layers, history };
 }

@@ -5,19 +5,23 @@
  * Keys are written in one fixed order and absent optional fields are omitted, so equal data always
  * gives equal bytes.
  */
+import type { SpanEvaluation, SpanFigures } from '../crf/evaluate';
 import type { ReadError } from '../types';
 import {
   BACKUP_FORMAT,
   BACKUP_FORMAT_VERSION,
   type AnnotatorInfo,
   type BackupData,
+  type BackupDismissal,
+  type BackupExchange,
+  type BackupModel,
+  type BackupProject,
   type BackupHeader,
   type BackupHistory,
   type BackupLayer,
   type BackupUtterance,
   type BatchInfo,
   type LayerContent,
-  type ProjectInfo,
   type ProjectSchema,
 } from './model';
 
@@ -40,10 +44,55 @@ function schemaCanonical(schema: ProjectSchema): ProjectSchema {
   };
 }
 
-export function backupProjectEncode(p: ProjectInfo): string {
+function exchangeCanonical(e: BackupExchange): BackupExchange {
+  const packs = e.packs.map((p) => ({ id: p.id, annotator: p.annotator, created: p.created, seqs: p.seqs }));
+  return { uid: e.uid, role: e.role, name: e.name, packs } as BackupExchange;
+}
+
+/** Entries sorted by key in code-unit order, so the bytes depend on the keys alone, not on insertion order. */
+function recordCanonical<T, U>(record: Readonly<Record<string, T>>, value: (v: T) => U): Record<string, U> {
+  const keys = Object.keys(record).sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
+  // fromEntries defines own properties, so even a "__proto__" key stays a plain entry.
+  return Object.fromEntries(keys.map((k) => [k, value(record[k] as T)]));
+}
+
+function figuresCanonical(f: SpanFigures): SpanFigures {
+  return { truePositives: f.truePositives, falsePositives: f.falsePositives, falseNegatives: f.falseNegatives, precision: f.precision, recall: f.recall, f1: f.f1 };
+}
+
+function evaluationCanonical(e: SpanEvaluation): SpanEvaluation {
+  return { slots: recordCanonical(e.slots, figuresCanonical), overall: figuresCanonical(e.overall), utterances: e.utterances, exactUtterances: e.exactUtterances };
+}
+
+function modelCanonical(m: BackupModel): BackupModel {
+  const cv = m.crossValidation;
+  const crossValidation = cv === null ? null : { folds: cv.folds, pooled: evaluationCanonical(cv.pooled), perFold: cv.perFold.map(evaluationCanonical) };
+  // The model file text is kept as a string, byte for byte: it is what model-repo stores.
+  return { json: m.json, saved: m.saved, origin: m.origin, crossValidation };
+}
+
+function dismissedCanonical(d: Readonly<Record<string, BackupDismissal>> | undefined): Record<string, BackupDismissal> | undefined {
+  // None and empty are the same to findings-repo, which never stores {}.
+  if (d === undefined || Object.keys(d).length === 0) return undefined;
+  return recordCanonical(d, (x) => ({ when: x.when, who: x.who }));
+}
+
+/** The extras come last, the model last of all: its file text can be long. Absent ones are not written. */
+export function backupProjectEncode(p: BackupProject): string {
   const { name, created, updated, tokeniser, scheme, schema } = p;
   const tokeniserCanonical = tokeniser.kind === 'regex' ? { kind: tokeniser.kind, pattern: tokeniser.pattern, flags: tokeniser.flags } : { kind: tokeniser.kind };
-  return JSON.stringify({ type: 'project', name, created, updated, tokeniser: tokeniserCanonical, scheme, schema: schemaCanonical(schema) });
+  return JSON.stringify({
+    type: 'project',
+    name,
+    created,
+    updated,
+    tokeniser: tokeniserCanonical,
+    scheme,
+    schema: schemaCanonical(schema),
+    exchange: p.exchange === undefined ? undefined : exchangeCanonical(p.exchange),
+    dismissed: dismissedCanonical(p.dismissed),
+    model: p.model === undefined ? undefined : modelCanonical(p.model),
+  });
 }
 
 export function backupAnnotatorEncode(a: AnnotatorInfo): string {

@@ -1,7 +1,8 @@
 /**
  * Field readers for the lenient restore step: a required field that is missing or of the wrong type
  * is an error (the record cannot be trusted); an optional one is dropped with a warning, so a
- * slightly damaged file still restores everything that is sound. Unknown keys are ignored.
+ * slightly damaged file still restores everything that is sound. Unknown keys are ignored, but the
+ * project record's warn (see project-extras.ts, which also reads that record's strict fields).
  */
 import type { ReadError } from '../types';
 

@@ -1,3 +1,4 @@
 export * from './decode';
+export * from './dismissed';
 export * from './encode';
 export * from './model';

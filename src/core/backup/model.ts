@@ -7,11 +7,16 @@
  * stable within a project) and batches by their 1-based position in the file. A restored project
  * therefore backs up to the same bytes as the original.
  */
+import type { CrossValidation } from '../crf/cross-validate';
 import type { TokeniserSpec } from '../tokenise';
 import type { ReadError, Scheme } from '../types';
 
 export const BACKUP_FORMAT = 'slotsmith-backup';
-export const BACKUP_FORMAT_VERSION = 1;
+/**
+ * 2: the project record may carry `exchange`, `model` and `dismissed`. Bumped so that a build which
+ * reads only format 1 refuses such a file instead of restoring it without them; format 1 still reads.
+ */
+export const BACKUP_FORMAT_VERSION = 2;
 
 export type LayerStatus = 'unlabelled' | 'draft' | 'done' | 'skipped' | 'flagged';
 export const LAYER_STATUSES: readonly LayerStatus[] = ['unlabelled', 'draft', 'done', 'skipped', 'flagged'];
@@ -57,6 +62,49 @@ export interface ProjectInfo {
   /** The scheme imports are shown in and exports default to. */
   scheme: Scheme;
   schema: ProjectSchema;
+}
+
+/** A pack handed out (or opened here); the shape src/db/exchange-repo.ts keeps as `PackEntry`. */
+export interface BackupPackEntry {
+  /** The pack's `bodySha256`. */
+  id: string;
+  annotator: string;
+  created: number;
+  seqs: number[];
+}
+
+/** Team-work facts of a project; the shape src/db/exchange-repo.ts keeps as `ProjectExchange`. */
+export interface BackupExchange {
+  uid: string;
+  role: 'master' | 'copy';
+  name?: string;
+  packs: BackupPackEntry[];
+}
+
+/** The saved tagger; the shape src/db/model-repo.ts keeps as `StoredModel`. */
+export interface BackupModel {
+  /** The model file text (src/core/crf/model-file.ts), exactly as trained or loaded. */
+  json: string;
+  saved: number;
+  origin: 'trained' | 'file';
+  crossValidation: CrossValidation | null;
+}
+
+/** A dismissed likely-mistake finding; the shape src/db/findings-repo.ts keeps as `Dismissal`. */
+export interface BackupDismissal {
+  when: number;
+  who: string | null;
+}
+
+/**
+ * The project row's unindexed extras, which other stores add to it. In a backup, a model-disagreement
+ * finding key names its utterance by seq, not by database id (see dismissed.ts).
+ */
+export interface BackupProject extends ProjectInfo {
+  exchange?: BackupExchange;
+  model?: BackupModel;
+  /** By finding key; never empty (absent instead), as src/db/findings-repo.ts stores it. */
+  dismissed?: Record<string, BackupDismissal>;
 }
 
 export interface AnnotatorInfo {
@@ -134,7 +182,7 @@ export interface BackupHistory {
 }
 
 export interface BackupData {
-  project: ProjectInfo;
+  project: BackupProject;
   annotators: AnnotatorInfo[];
   /** Never a running import: a backup holds finished, failed or cancelled batches only. */
   batches: BatchInfo[];
@@ -153,7 +201,7 @@ export interface BackupHeader {
 }
 
 export type BackupRecord =
-  | ({ type: 'project' } & ProjectInfo)
+  | ({ type: 'project' } & BackupProject)
   | ({ type: 'annotator' } & AnnotatorInfo)
   | ({ type: 'batch' } & BatchInfo)
   | ({ type: 'utterance' } & BackupUtterance)

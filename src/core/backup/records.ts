@@ -11,11 +11,12 @@ import {
   type BackupUtterance,
   type BatchInfo,
   type IntentDef,
+  type BackupProject,
   type LayerContent,
-  type ProjectInfo,
   type ProjectSchema,
   type SlotDef,
 } from './model';
+import { keysUnknownWarn, PROJECT_EXTRA_KEYS, projectExtrasRead } from './project-extras';
 
 function tokeniserRead(r: FieldReader): TokeniserSpec {
   const v = r.value.tokeniser;
@@ -81,14 +82,19 @@ function schemaRead(r: FieldReader): ProjectSchema {
   return { slots: listRead(s, 'slots', 'slot', slotRead), intents: listRead(s, 'intents', 'intent', intentRead) };
 }
 
-export function projectRead(r: FieldReader): ProjectInfo | null {
-  const project: ProjectInfo = {
+const PROJECT_KEYS = ['type', 'name', 'created', 'updated', 'tokeniser', 'scheme', 'schema', ...PROJECT_EXTRA_KEYS];
+
+export function projectRead(r: FieldReader): BackupProject | null {
+  // A warning, not an error, for the reason given in project-extras.ts.
+  keysUnknownWarn(r, PROJECT_KEYS);
+  const project: BackupProject = {
     name: r.string('name'),
     created: r.integer('created'),
     updated: r.integer('updated'),
     tokeniser: tokeniserRead(r),
     scheme: r.choice('scheme', SCHEMES, 'iob2'),
     schema: schemaRead(r),
+    ...projectExtrasRead(r),
   };
   return r.failed ? null : project;
 }

@@ -7,6 +7,9 @@ import fc from 'fast-check';
 import type {
   AnnotatorInfo,
   BackupData,
+  BackupDismissal,
+  BackupExchange,
+  BackupModel,
   BackupHistory,
   BackupLayer,
   BackupUtterance,
@@ -16,6 +19,8 @@ import type {
   ProjectInfo,
   SlotDef,
 } from '../../../src/core/backup/model';
+import { CRF_FEATURE_SET, crfModelToJson, type CrfModel, type CrossValidation, type SpanEvaluation, type SpanFigures } from '../../../src/core/crf';
+import { findingKey } from '../../../src/core/error-detect';
 import { fieldValueArbitrary, INTENTS, metaKeyArbitrary, shapeArbitrary, SLOTS } from '../../generators/formats';
 
 /** Legal and illegal IOB2/BIOES tags, and strings no scheme accepts: imports keep them all. */
@@ -107,9 +112,93 @@ function utterancesArbitrary(batchCount: number): fc.Arbitrary<BackupUtterance[]
   });
 }
 
+const hex = (length: number) => fc.string({ unit: fc.constantFrom(...'0123456789abcdef'), minLength: length, maxLength: length });
+
+export const exchangeArbitrary: fc.Arbitrary<BackupExchange> = fc
+  .record({
+    uid: hex(32),
+    role: fc.constantFrom('master' as const, 'copy' as const),
+    name: optional(text),
+    packs: fc.array(fc.record({ id: hex(64), annotator: fc.constantFrom('ana', 'bo', 'דנה'), created: time, seqs: fc.array(fc.integer({ min: 1, max: 99 }), { maxLength: 4 }) }), { maxLength: 3 }),
+  })
+  .map((e) => defined<BackupExchange>(e));
+
+/** A small model whose tables fit together, so the model-file reader accepts it; weights any float64. */
+export const crfModelArbitrary: fc.Arbitrary<CrfModel> = fc
+  .record({
+    labels: fc.uniqueArray(fc.constantFrom('O', 'B-day', 'I-day', 'B-service', 'B-地区'), { minLength: 1, maxLength: 3 }),
+    attributes: fc.uniqueArray(fc.constantFrom('w[0]=tap', 'w[-1]=on', 'shape=Xx', 'w[1]=פרידי'), { maxLength: 3 }),
+    loss: fc.double({ min: 0, max: 1e6, noNaN: true }),
+    iterations: fc.nat(200),
+  })
+  .chain(({ labels, attributes, loss, iterations }) =>
+    fc.tuple(fc.array(fc.subarray(labels.map((_, i) => i), { minLength: 1 }), { minLength: attributes.length, maxLength: attributes.length })).chain(([perAttribute]) => {
+      const featureLabels = perAttribute.flat();
+      const starts = [0];
+      for (const list of perAttribute) starts.push((starts.at(-1) as number) + list.length);
+      const weightCount = featureLabels.length + labels.length * labels.length;
+      return fc.array(fc.double(), { minLength: weightCount, maxLength: weightCount }).map(
+        (weights): CrfModel => ({
+          labels,
+          attributes,
+          featureStarts: Int32Array.from(starts),
+          featureLabels: Uint16Array.from(featureLabels),
+          weights: Float64Array.from(weights),
+          training: { featureSet: CRF_FEATURE_SET, c2: 1, seed: 7, maxIterations: 200, iterations, loss, stopped: 'converged', utterances: 12, tokens: 60, evaluations: iterations + 3 },
+        }),
+      );
+    }),
+  );
+
+const count = fc.nat(500);
+const share = fc.double({ min: 0, max: 1, noNaN: true }).map((x) => x + 0);
+const figuresArbitrary: fc.Arbitrary<SpanFigures> = fc.record({ truePositives: count, falsePositives: count, falseNegatives: count, precision: share, recall: share, f1: share });
+const evaluationArbitrary: fc.Arbitrary<SpanEvaluation> = fc.record({
+  slots: fc.dictionary(fc.constantFrom(...SLOTS, '12', 'x y'), figuresArbitrary, { maxKeys: 3 }),
+  overall: figuresArbitrary,
+  utterances: count,
+  exactUtterances: count,
+});
+const crossValidationArbitrary: fc.Arbitrary<CrossValidation> = fc
+  .integer({ min: 2, max: 3 })
+  .chain((folds) => fc.record({ folds: fc.constant(folds), pooled: evaluationArbitrary, perFold: fc.array(evaluationArbitrary, { minLength: folds, maxLength: folds }) }));
+
+/** Trained models carry cross-validation or not; loaded files may be laid out by hand (indented): kept as text. */
+export const storedModelArbitrary: fc.Arbitrary<BackupModel> = fc.record({
+  json: fc.tuple(crfModelArbitrary, fc.boolean()).map(([model, indented]) => (indented ? JSON.stringify(JSON.parse(crfModelToJson(model)), null, 2) : crfModelToJson(model))),
+  saved: time,
+  origin: fc.constantFrom('trained' as const, 'file' as const),
+  crossValidation: fc.option(crossValidationArbitrary, { nil: null }),
+});
+
+const dismissalArbitrary: fc.Arbitrary<BackupDismissal> = fc.record({ when: time, who: fc.option(fc.constantFrom('ana', 'bo', '李'), { nil: null }) });
+
+/**
+ * Dismissals keyed as the core builds finding keys: content-only kinds, and model disagreements
+ * naming one of `seqs` (in a backup, keys name utterances by seq; see src/core/backup/dismissed.ts).
+ */
+export function dismissedArbitrary(seqs: readonly number[]): fc.Arbitrary<Record<string, BackupDismissal> | undefined> {
+  const words = fc.array(fc.constantFrom('fix', 'tap', 'Friday', 'ברז', '🔧'), { minLength: 1, maxLength: 3 });
+  const tags = fc.array(fc.constantFrom(...TAG_POOL), { minLength: 1, maxLength: 3 });
+  const keys: fc.Arbitrary<string>[] = [
+    words.map((tokens) => findingKey({ kind: 'variation', tokens, nucleus: { start: 0, end: 1 }, fringe: true, readings: [], occurrences: 2 })),
+    fc.tuple(text, fc.constantFrom(...SLOTS)).map(([value, slot]) =>
+      findingKey({ kind: 'slot-outlier', value, slot, count: 1, majoritySlot: 'area', majorityCount: 9, ratio: 9, locations: [] }),
+    ),
+  ];
+  if (seqs.length > 0) {
+    keys.push(
+      fc.tuple(fc.constantFrom(...seqs), fc.constantFrom('ana', 'gold'), words, tags, tags).map(([seq, layer, tokens, annotatorTags, modelTags]) =>
+        findingKey({ kind: 'model-disagreement', location: { id: String(seq), layer, start: 0, end: 1 }, tokens, annotatorTags, modelTags, confidence: 0.5 }),
+      ),
+    );
+  }
+  return optional(fc.dictionary(fc.oneof(...keys), dismissalArbitrary, { minKeys: 1, maxKeys: 4 }));
+}
+
 export const backupDataArbitrary: fc.Arbitrary<BackupData> = fc
-  .tuple(projectArbitrary, annotatorsArbitrary, fc.array(batchArbitrary, { maxLength: 3 }))
-  .chain(([project, annotators, batches]) =>
+  .tuple(projectArbitrary, annotatorsArbitrary, fc.array(batchArbitrary, { maxLength: 3 }), optional(exchangeArbitrary), optional(storedModelArbitrary))
+  .chain(([info, annotators, batches, exchange, model]) =>
     utterancesArbitrary(batches.length).chain((utterances) => {
       const owners = [...annotators.map((a) => a.id), 'gold', 'model'];
       const slots = utterances.flatMap((u) => owners.map((annotator) => ({ seq: u.seq, annotator, count: u.tokens.length / 2 })));
@@ -122,15 +211,14 @@ export const backupDataArbitrary: fc.Arbitrary<BackupData> = fc
           layer: defined<BackupLayer>({ seq: slot.seq, annotator: slot.annotator, ...content, batch }),
           history: history.map(([before, after, who, when]): BackupHistory => ({ seq: slot.seq, annotator: slot.annotator, before, after, who, when })),
         }));
-      return fc.subarray(slots, { maxLength: Math.min(8, slots.length) }).chain((chosen) =>
-        fc.tuple(...chosen.map(layerFor)).map((made) => ({
-          project,
-          annotators,
-          batches,
-          utterances,
-          layers: made.map((m) => m.layer),
-          history: made.flatMap((m) => m.history),
-        })),
-      );
+      const made = fc.subarray(slots, { maxLength: Math.min(8, slots.length) }).chain((chosen) => fc.tuple(...chosen.map(layerFor)));
+      return fc.tuple(made, dismissedArbitrary(utterances.map((u) => u.seq))).map(([made, dismissed]) => ({
+        project: defined<BackupData['project']>({ ...info, exchange, model, dismissed }),
+        annotators,
+        batches,
+        utterances,
+        layers: made.map((m) => m.layer),
+        history: made.flatMap((m) => m.history),
+      }));
     }),
   );

@@ -64,7 +64,7 @@ describe('backup codec', () => {
 
   it('writes a header line with the format, version and record counts, then one record per line', () => {
     const [header, ...records] = lines(small);
-    expect(JSON.parse(header ?? '')).toEqual({ format: 'slotsmith-backup', formatVersion: 1, created: CREATED, counts: { annotators: 1, batches: 1, utterances: 2, layers: 2, history: 1 } });
+    expect(JSON.parse(header ?? '')).toEqual({ format: 'slotsmith-backup', formatVersion: 2, created: CREATED, counts: { annotators: 1, batches: 1, utterances: 2, layers: 2, history: 1 } });
     expect(records.map((r) => (JSON.parse(r) as { type: string }).type)).toEqual(['project', 'annotator', 'batch', 'utterance', 'utterance', 'layer', 'layer', 'history']);
     expect(records[3]).toBe('{"type":"utterance","seq":1,"text":"fix tap Friday","tokens":[0,3,4,7,8,14],"meta":{},"batch":1,"line":1}');
     expect(backupEncode(small, CREATED).endsWith('}\n')).toBe(true);
@@ -74,7 +74,7 @@ describe('backup codec', () => {
   it('refuses a backup from a newer Slotsmith with a clear message', () => {
     const [header, ...rest] = lines(small);
     const newer = [JSON.stringify({ ...JSON.parse(header ?? ''), formatVersion: BACKUP_FORMAT_VERSION + 1 }), ...rest, '{"type":"hologram"}'].join('\n');
-    expect(backupDecode(newer)).toEqual({ ok: false, errors: [{ line: 1, message: 'made by a newer Slotsmith (format 2); this version reads up to 1' }] });
+    expect(backupDecode(newer)).toEqual({ ok: false, errors: [{ line: 1, message: 'made by a newer Slotsmith (format 3); this version reads up to 2' }] });
   });
 
   it.each([
@@ -139,6 +139,7 @@ describe('backup codec', () => {
     expect(result.data.layers[0]).toMatchObject({ status: 'draft', note: '' });
     // Each warning names its file line; the data itself is kept.
     expect(result.warnings).toEqual([
+      { line: 2, message: 'project: "extra" is not known to this version; ignored' },
       { line: 2, message: 'project: "scheme" "iob9" is unknown; using iob2' },
       { line: 5, message: 'utterance: meta "bad" is not a string; dropped' },
       { line: 5, message: 'utterance: "line" is not a whole number of at least 1; dropped' },
@@ -151,10 +152,11 @@ describe('backup codec', () => {
     const text = lines(withAttached);
     expect(JSON.parse(text[3] ?? '')).toMatchObject({ type: 'batch', attached: 7 });
     expect(decodeOk(text.join('\n')).batches[0]?.attached).toBe(7);
-    // The older file: no attached field anywhere, same format version, read as before.
+    // The older file: no attached field anywhere, format 1, read as before.
     const older = lines(small);
+    older[0] = (older[0] ?? '').replace('"formatVersion":2', '"formatVersion":1');
     expect(older[3]).not.toContain('attached');
-    expect(JSON.parse(older[0] ?? '')).toMatchObject({ formatVersion: 1 });
+    expect(JSON.parse(older[0])).toMatchObject({ formatVersion: 1 });
     expect(decodeOk(older.join('\n')).batches[0]).not.toHaveProperty('attached');
     const bad = [...text];
     bad[3] = (bad[3] ?? '').replace('"attached":7', '"attached":-2');
