@@ -90,6 +90,9 @@ test('repair one, then all with a preview; a second scan finds none; undo brings
   await expect(summary(page)).toHaveText(summaryText(0, 0, 0, 0), { timeout: SLOW });
   await expect(page.getByText('No findings: every layer follows the rules.')).toBeVisible();
 
+  // The undo outlives a reload: the repair is rebuilt from its history rows.
+  await page.reload();
+  await expect(summary(page)).toHaveText(summaryText(0, 0, 0, 0), { timeout: SLOW });
   await page.getByRole('button', { name: `Undo the last repair (${REPAIRABLE} layers)` }).click();
   await expect(page.getByText(`Undone: the previous tags of ${REPAIRABLE} layers are back.`)).toBeVisible();
   await expect(summary(page)).toHaveText(summaryText(TRANSITIONS + SCHEMA, WITH, TRANSITIONS, SCHEMA), { timeout: SLOW });

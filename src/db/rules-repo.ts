@@ -146,9 +146,26 @@ export interface RepairRecord {
   strategy: RepairStrategy;
   when: number;
   layers: RepairedLayer[];
+  /** First and last id of the history rows it wrote (one transaction: nothing else in between). */
+  history: [number, number] | null;
 }
 
-async function layersWrite(db: SlotsmithDb, projectId: number, changes: { row: LayerRow; tags: string[] }[], who: string, now: number): Promise<LayerRow[]> {
+/** A repair named by its history rows: small enough to keep anywhere, so its undo can outlive a reload. */
+export interface RepairNote {
+  projectId: number;
+  strategy: RepairStrategy;
+  when: number;
+  history: [number, number];
+}
+
+async function layersWrite(
+  db: SlotsmithDb,
+  projectId: number,
+  changes: { row: LayerRow; tags: string[] }[],
+  who: string,
+  now: number,
+  historyIds: number[] = [],
+): Promise<LayerRow[]> {
   const written: LayerRow[] = [];
   for (let i = 0; i < changes.length; i += CHUNK) {
     const slice = changes.slice(i, i + CHUNK);
@@ -157,7 +174,7 @@ async function layersWrite(db: SlotsmithDb, projectId: number, changes: { row: L
       ({ row }, j): Omit<HistoryRow, 'id'> => ({ projectId, utteranceId: row.utteranceId, annotator: row.annotator, before: layerContent(row), after: layerContent(next[j] as LayerRow), who, when: now }),
     );
     await db.layers.bulkPut(next);
-    await db.history.bulkAdd(history as HistoryRow[]);
+    historyIds.push(...(await db.history.bulkAdd(history as HistoryRow[], { allKeys: true })));
     written.push(...next);
   }
   return written;
@@ -193,12 +210,16 @@ export async function rulesRepairApply(db: SlotsmithDb, projectId: number, targe
       if (tags.some((t, i) => t !== row.tags[i])) changes.push({ row, tags });
     }
     const now = db.clock();
-    const written = await layersWrite(db, projectId, changes, options.who, now);
+    const historyIds: number[] = [];
+    const written = await layersWrite(db, projectId, changes, options.who, now, historyIds);
+    const first = historyIds[0];
+    const last = historyIds[historyIds.length - 1];
     return {
       projectId,
       strategy: options.strategy,
       when: now,
       layers: written.map((row, i) => ({ utteranceId: row.utteranceId, annotator: row.annotator, before: [...(changes[i] as { row: LayerRow }).row.tags], after: [...row.tags], revision: row.revision })),
+      history: first === undefined || last === undefined ? null : [first, last],
     };
   });
 }
@@ -213,5 +234,36 @@ export async function rulesRepairUndo(db: SlotsmithDb, record: RepairRecord, opt
     const changes = rows.map((row, i) => ({ row, tags: [...(record.layers[i] as RepairedLayer).before] }));
     await layersWrite(db, record.projectId, changes, options.who, db.clock());
     return changes.length;
+  });
+}
+
+export function repairNoteOf(record: RepairRecord): RepairNote | null {
+  return record.history === null ? null : { projectId: record.projectId, strategy: record.strategy, when: record.when, history: record.history };
+}
+
+const tagsSame = (a: readonly string[], b: readonly string[]) => a.length === b.length && a.every((t, i) => t === b[i]);
+
+/**
+ * The repair a note names, rebuilt from its history rows (before and after tags). A layer still as the
+ * repair left it (same tags, last written at the repair's time) gets its current revision; any other
+ * gets -1, so an undo is refused rather than overwriting newer work. Null when the rows are gone.
+ */
+export async function repairRecordFromHistory(db: SlotsmithDb, note: RepairNote): Promise<RepairRecord | null> {
+  const [from, to] = note.history;
+  return db.transaction('r', [db.layers, db.history], async () => {
+    const rows = (await db.history.where(':id').between(from, to, true, true).toArray()).filter((h) => h.projectId === note.projectId && h.when === note.when);
+    if (rows.length === 0 || rows.length !== to - from + 1) return null;
+    const layers = await db.layers.bulkGet(rows.map((h): LayerKey => [h.utteranceId, h.annotator]));
+    return {
+      projectId: note.projectId,
+      strategy: note.strategy,
+      when: note.when,
+      history: note.history,
+      layers: rows.map((h, i): RepairedLayer => {
+        const now = layers[i];
+        const untouched = now !== undefined && now.updated === note.when && tagsSame(now.tags, h.after.tags);
+        return { utteranceId: h.utteranceId, annotator: h.annotator, before: [...(h.before?.tags ?? [])], after: [...h.after.tags], revision: untouched ? now.revision : -1 };
+      }),
+    };
   });
 }

@@ -5,7 +5,7 @@ import { batchAppend, batchBegin } from '../../src/db/batch-repo';
 import { RevisionConflictError, StorageFullError } from '../../src/db/errors';
 import { layerSave } from '../../src/db/layer-repo';
 import { projectCreate } from '../../src/db/project-repo';
-import { rulesRepairApply, rulesRepairUndo, rulesScan, ruleSchemaOf, type RepairTarget, type RulesScan } from '../../src/db/rules-repo';
+import { repairNoteOf, repairRecordFromHistory, rulesRepairApply, rulesRepairUndo, rulesScan, ruleSchemaOf, type RepairNote, type RepairTarget, type RulesScan } from '../../src/db/rules-repo';
 import type { LayerRow, SlotsmithDb } from '../../src/db/schema';
 import { dbDump } from './dump';
 import { dbTest, SAMPLE, utteranceMake } from './helpers';
@@ -131,6 +131,31 @@ describe('rule repair and undo', () => {
     expect(history.map((h) => h.before?.tags)).toEqual(record.layers.map((l) => l.after));
     // Undo twice is refused: the layers moved on with the first undo.
     await expect(rulesRepairUndo(db, record, { who: WHO })).rejects.toBeInstanceOf(RevisionConflictError);
+  });
+
+  it('a repair rebuilt from its note (after a reload) is the same record and undoes the same; an edited layer makes its undo refuse', async () => {
+    const db = dbTest();
+    const { projectId } = await seed(db);
+    const before = await layersOfProject(db, projectId);
+    const record = await rulesRepairApply(db, projectId, targetsOf(await rulesScan(db, projectId)), { strategy: 'begin-span', schemaSpans: false, who: WHO });
+    const note = repairNoteOf(record) as RepairNote;
+    expect(note.history[1] - note.history[0] + 1).toBe(record.layers.length);
+    // The note goes through JSON, as it does in localStorage.
+    const rebuilt = await repairRecordFromHistory(db, JSON.parse(JSON.stringify(note)) as RepairNote);
+    expect(rebuilt).toEqual(record);
+    expect(await rulesRepairUndo(db, rebuilt!, { who: WHO })).toBe(record.layers.length);
+    expect((await layersOfProject(db, projectId)).map((l) => l.tags)).toEqual(before.map((l) => l.tags));
+
+    const again = await rulesRepairApply(db, projectId, targetsOf(await rulesScan(db, projectId)), { strategy: 'begin-span', schemaSpans: false, who: WHO });
+    const edited = again.layers[0]!;
+    await layerSave(db, [edited.utteranceId, edited.annotator], { note: 'checked' }, { expectedRevision: edited.revision, who: 'ana' });
+    const stale = await repairRecordFromHistory(db, repairNoteOf(again)!);
+    expect(stale?.layers[0]?.revision).toBe(-1);
+    const dump = await dbDump(db);
+    await expect(rulesRepairUndo(db, stale!, { who: WHO })).rejects.toBeInstanceOf(RevisionConflictError);
+    expect(await dbDump(db)).toEqual(dump);
+    // A note whose rows are not there (another database, or history cleared) gives nothing to undo.
+    expect(await repairRecordFromHistory(db, { ...note, history: [note.history[0] + 10_000, note.history[1] + 10_000] })).toBeNull();
   });
 
   it('refuses, writing nothing, when a layer changed since the scan or since the repair', async () => {

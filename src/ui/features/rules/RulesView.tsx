@@ -2,7 +2,7 @@ import { useLiveQuery } from 'dexie-react-hooks';
 import { useEffect, useRef, useState } from 'react';
 import { REPAIR_STRATEGIES, type RepairStrategy } from '../../../core/rules';
 import { projectGet, RevisionConflictError } from '../../../db';
-import { rulesRepairApply, rulesRepairUndo, type RepairRecord, type RulesScan, type RulesScanProgress } from '../../../db/rules-repo';
+import { repairNoteOf, repairRecordFromHistory, rulesRepairApply, rulesRepairUndo, type RepairNote, type RepairRecord, type RulesScan, type RulesScanProgress } from '../../../db/rules-repo';
 import { useSession } from '../../../state/session';
 import { JobCancelledError, type WorkerJob } from '../../../workers/worker-job';
 import { appDb } from '../../app/db';
@@ -20,8 +20,29 @@ const STRATEGY_LABELS: Record<RepairStrategy, string> = {
   'drop-stray': 'Drop it: the tokens of a span opened by a stray I-X become O',
 };
 
-// The last repair per project, so its undo survives a visit to another screen (not a reload).
+// The last repair per project, so its undo survives a visit to another screen; a small note of it in
+// localStorage (its history rows) lets a reload rebuild it from the database.
 const lastRepairs = new Map<number, RepairRecord>();
+const noteKey = (projectId: number) => `slotsmith.lastRepair.${projectId}`;
+
+function repairNoteKeep(projectId: number, record: RepairRecord | null): void {
+  try {
+    const note = record === null ? null : repairNoteOf(record);
+    if (note === null) localStorage.removeItem(noteKey(projectId));
+    else localStorage.setItem(noteKey(projectId), JSON.stringify(note));
+  } catch {
+    // Storage refused: the undo still lasts until the page is reloaded.
+  }
+}
+
+function repairNoteRead(projectId: number): RepairNote | null {
+  try {
+    const note = JSON.parse(localStorage.getItem(noteKey(projectId)) ?? 'null') as RepairNote | null;
+    return note !== null && note.projectId === projectId && Array.isArray(note.history) ? note : null;
+  } catch {
+    return null;
+  }
+}
 const PAGE = 200;
 
 /** "Rule review": every rule finding across the project's layers, repaired in one go and undoable. */
@@ -40,6 +61,25 @@ export function RulesView({ projectId }: ProjectViewProps) {
   const [message, setMessage] = useState<{ text: string; error: boolean } | null>(null);
   const [lastRepair, setLastRepair] = useState<RepairRecord | null>(lastRepairs.get(projectId) ?? null);
   const job = useRef<WorkerJob<RulesScan> | null>(null);
+
+  // After a reload: the last repair comes back from its history rows, so it can still be undone.
+  useEffect(() => {
+    if (lastRepairs.has(projectId)) return;
+    const note = repairNoteRead(projectId);
+    if (note === null) return;
+    let live = true;
+    void repairRecordFromHistory(appDb(), note).then((record) => {
+      if (!live) return;
+      if (record === null) repairNoteKeep(projectId, null);
+      else {
+        lastRepairs.set(projectId, record);
+        setLastRepair(record);
+      }
+    });
+    return () => {
+      live = false;
+    };
+  }, [projectId]);
 
   useEffect(() => {
     const current = rulesScanStart(projectId, (progress) => {
@@ -94,6 +134,7 @@ export function RulesView({ projectId }: ProjectViewProps) {
     try {
       const record = await rulesRepairApply(appDb(), projectId, repairTargets(preview), { strategy, schemaSpans, who });
       lastRepairs.set(projectId, record);
+      repairNoteKeep(projectId, record);
       setLastRepair(record);
       setMessage({ text: `Repaired ${record.layers.length} layer${record.layers.length === 1 ? '' : 's'} (${preview.tagsChanged} tags) in one step. You can undo it below.`, error: false });
       rescan();
@@ -115,6 +156,7 @@ export function RulesView({ projectId }: ProjectViewProps) {
     try {
       const count = await rulesRepairUndo(appDb(), lastRepair, { who });
       lastRepairs.delete(projectId);
+      repairNoteKeep(projectId, null);
       setLastRepair(null);
       setMessage({ text: `Undone: the previous tags of ${count} layer${count === 1 ? '' : 's'} are back.`, error: false });
     } catch (error) {
