@@ -115,6 +115,8 @@ test('train with cross-validation, read the per-slot table, pre-label the unlabe
 
   const first = queue.getByRole('link').first();
   await first.click();
-  await expect(page).toHaveURL(/#\/p\/\d+\/label\?u=\d+$/);
+  // The label screen opens in the same order, so "next not started" goes on down the list.
+  await expect(page).toHaveURL(/#\/p\/\d+\/label\?order=uncertain&u=\d+$/);
+  await expect(page.getByRole('radio', { name: /least sure first/ })).toBeChecked();
   expect(foreign).toEqual([]);
 });

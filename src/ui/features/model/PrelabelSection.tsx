@@ -117,10 +117,11 @@ export function PrelabelSection({ projectId, scheme, modelJson }: { projectId: n
               <li key={e.utteranceId}>
                 <span className="model-score">{e.leastConfidence.toFixed(3)}</span>{' '}
                 <a
-                  href={`#/p/${projectId}/label?u=${e.utteranceId}`}
+                  href={`#/p/${projectId}/label?order=uncertain&u=${e.utteranceId}`}
                   onClick={(event) => {
                     event.preventDefault();
-                    go('label', projectId, { u: String(e.utteranceId) });
+                    // Opened in the same order, so "next not started" goes on down this list.
+                    go('label', projectId, { u: String(e.utteranceId), order: 'uncertain' });
                   }}
                 >
                   {e.text}
