@@ -43,8 +43,8 @@ describe('whole schema', () => {
   it('ties each problem to the slot and field it belongs to', () => {
     const schema: ProjectSchema = {
       slots: [
-        { name: 'day', key: 'x', colour: '#123456' },
-        { name: 'day', key: 'X' },
+        { name: 'day', key: 'k', colour: '#123456' },
+        { name: 'day', key: 'K' },
         { name: 'area', key: 'z', intents: ['book_visit', 'book_visit', 'haggle'] },
         { name: 'budget', key: 'bb' },
       ],
@@ -61,8 +61,8 @@ describe('whole schema', () => {
       ['slot', 3, 'key'],
       ['intent', 3, 'name'],
     ]);
-    // Keys compare without case: X clashes with x.
-    expect(schemaProblemsOf(problems, 'slot', 1)).toEqual({ name: 'Another slot is already called day.', key: 'The key “X” already labels day.' });
+    // Keys compare without case: K clashes with k.
+    expect(schemaProblemsOf(problems, 'slot', 1)).toEqual({ name: 'Another slot is already called day.', key: 'The key “K” already labels day.' });
     expect(schemaProblemsOf(problems, 'slot', 2).key).toMatch(/kept for the labelling screen/);
     expect(schemaProblemsOf(problems, 'slot', 2).intents).toMatch(/listed twice/);
     expect(schemaProblemsOf(problems, 'slot', 3).key).toMatch(/one visible character/);

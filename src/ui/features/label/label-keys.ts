@@ -4,6 +4,7 @@
  * Commands use keys no one-key slot shortcut is likely to take (arrows, punctuation, shift+letter).
  */
 import type { LayerStatus, SlotDef } from '../../../core/backup/model';
+import { keyNormalise } from '../../../core/schema-edit/keys';
 
 export type LabelCommand =
   | { kind: 'move'; delta: number; extend: boolean }
@@ -69,7 +70,10 @@ export function labelCommandFor(press: KeyPress, slots: readonly SlotDef[]): Lab
   const fixed = FIXED.find((f) => f.matches(press));
   if (fixed !== undefined) return fixed.command(press);
   if (!plain(press)) return null;
-  const slot = slots.find((s) => s.key !== undefined && s.key !== '' && s.key === press.key);
+  const usable = slots.filter((s) => s.key !== undefined && s.key !== '');
+  // Keys are unique regardless of case (see keyNormalise), so Caps Lock (an upper-case key without
+  // Shift) still reaches a lower-case slot key; an exact match wins.
+  const slot = usable.find((s) => s.key === press.key) ?? (press.shift ? undefined : usable.find((s) => keyNormalise(s.key ?? '') === keyNormalise(press.key)));
   return slot === undefined ? null : { kind: 'label', slot: slot.name };
 }
 

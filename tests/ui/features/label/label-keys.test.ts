@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { SlotDef } from '../../../../src/core/backup/model';
+import { keyIsReserved, keyProblem } from '../../../../src/core/schema-edit';
 import { labelCommandFor, labelKeyHelp, slotKeyIsTaken, type KeyPress } from '../../../../src/ui/features/label/label-keys';
 
 const SLOTS: SlotDef[] = [
@@ -24,6 +25,22 @@ describe('labelCommandFor', () => {
     expect(labelCommandFor(press('d', { ctrl: true }), SLOTS)).toBeNull();
     expect(labelCommandFor(press('a', { alt: true }), SLOTS)).toBeNull();
     expect(labelCommandFor(press('q'), SLOTS)).toBeNull();
+  });
+
+  it('Caps Lock (an upper-case key without Shift) still reaches a lower-case slot key; Shift does not', () => {
+    const slots: SlotDef[] = [{ name: 'service', key: 'v' }, { name: 'area', key: 'g' }];
+    expect(labelCommandFor(press('V'), slots)).toEqual({ kind: 'label', slot: 'service' });
+    expect(labelCommandFor(press('V', { shift: true }), slots)).toBeNull();
+    expect(labelCommandFor(press('g'), slots)).toEqual({ kind: 'label', slot: 'area' });
+  });
+
+  it('every one-character key the editor keeps for itself is one the slot editor refuses', () => {
+    // Printable ASCII, each as typed with and without Shift: the schema and the editor must agree.
+    for (let code = 0x21; code < 0x7f; code++) {
+      const key = String.fromCharCode(code);
+      if (keyProblem(key) !== null) continue;
+      if (slotKeyIsTaken(key)) expect(keyIsReserved(key), `key ${key}`).toBe(true);
+    }
   });
 
   it('fixed keys win over a clashing slot key, which the help marks as taken', () => {
