@@ -2,11 +2,13 @@
  * The CRF part of `npm run bench` (BENCH_ONLY=crf): training on 5k seeded corpus utterances
  * (target ≤ 15 s), tagging 100k (target ≤ 5 s), and our training time against CRFsuite's native
  * training (npm `crfsuite`, the C library) on the same utterances, the same attribute strings, the
- * same c2 and stopping rules (target ≤ 3×). Figures are printed, never asserted.
+ * same c2, L-BFGS memory and stopping rules (target ≤ 3×). Figures are printed, never asserted,
+ * each with the 1-minute load average beside it, since the machine is shared.
  */
 import { mkdirSync } from 'node:fs';
+import { loadavg } from 'node:os';
 import { createRequire } from 'node:module';
-import { attributesOfWords, crfSequenceFromUtterance, crfTagger, crfTrain, type CrfSequence } from '../src/core/crf';
+import { attributesOfWords, CRF_DEFAULTS, crfSequenceFromUtterance, crfTagger, crfTrain, type CrfSequence } from '../src/core/crf';
 import { corpusGenerate } from '../scripts/corpus/generate';
 
 interface CrfsuiteBinding {
@@ -24,23 +26,23 @@ export interface CrfBenchOptions {
   trainCount?: number;
   /** Default 100000. */
   tagCount?: number;
-  /** Default 100, with CRFsuite's stopping rules (ε = δ = 1e-5, period 10) on both sides. */
+  /** Default CRF_DEFAULTS.maxIterations, with CRFsuite's stopping rules (ε = δ = 1e-5, period 10) and CRF_DEFAULTS.memory on both sides. */
   maxIterations?: number;
 }
 
 const seconds = (ms: number) => (ms / 1000).toFixed(2).padStart(7);
 
 /** Wall and CPU time of `run` (CPU time is what this thread used: far steadier than wall time on a busy machine). */
-async function timed<T>(run: () => T | Promise<T>): Promise<{ value: T; wallMs: number; cpuMs: number }> {
+async function timed<T>(run: () => T | Promise<T>): Promise<{ value: T; wallMs: number; cpuMs: number; load: number }> {
   const cpu = process.cpuUsage();
   const started = performance.now();
   const value = await run();
   const wallMs = performance.now() - started;
   const used = process.cpuUsage(cpu);
-  return { value, wallMs, cpuMs: (used.user + used.system) / 1000 };
+  return { value, wallMs, cpuMs: (used.user + used.system) / 1000, load: loadavg()[0] ?? Number.NaN };
 }
 
-const both = (t: { wallMs: number; cpuMs: number }) => `${seconds(t.wallMs)} s wall, ${seconds(t.cpuMs)} s CPU`;
+const both = (t: { wallMs: number; cpuMs: number; load: number }) => `${seconds(t.wallMs)} s wall, ${seconds(t.cpuMs)} s CPU (load ${t.load.toFixed(1)})`;
 const verdict = (ok: boolean) => (ok ? 'met' : 'NOT met');
 
 function sequencesMake(seed: number, count: number): CrfSequence[] {
@@ -50,13 +52,14 @@ function sequencesMake(seed: number, count: number): CrfSequence[] {
 export async function crfBench(options: CrfBenchOptions): Promise<void> {
   const trainCount = options.trainCount ?? 5000;
   const tagCount = options.tagCount ?? 100_000;
-  const maxIterations = options.maxIterations ?? 100;
+  const maxIterations = options.maxIterations ?? CRF_DEFAULTS.maxIterations;
+  const memory = CRF_DEFAULTS.memory;
   mkdirSync(options.out, { recursive: true });
   const training = sequencesMake(options.seed, trainCount);
   const tokens = training.reduce((n, s) => n + s.words.length, 0);
-  console.log(`\n== CRF tagger: ${trainCount} training utterances (${tokens} tokens), c2 = 1, at most ${maxIterations} iterations`);
+  console.log(`\n== CRF tagger: ${trainCount} training utterances (${tokens} tokens), c2 = 1, at most ${maxIterations} iterations, L-BFGS memory ${memory}`);
 
-  const trained = await timed(() => crfTrain(training, { c2: 1, maxIterations }));
+  const trained = await timed(() => crfTrain(training, { c2: 1, maxIterations, memory }));
   const model = trained.value;
   const t = model.training;
   console.log(
@@ -75,7 +78,7 @@ export async function crfBench(options: CrfBenchOptions): Promise<void> {
     const appended = await timed(() => {
       for (const s of training) trainer.append(attributesOfWords(s.words), [...s.tags]);
     });
-    trainer.set_params({ c2: 1, max_iterations: maxIterations, epsilon: 1e-5, delta: 1e-5, period: 10, 'feature.possible_transitions': 1 });
+    trainer.set_params({ c2: 1, max_iterations: maxIterations, num_memories: memory, epsilon: 1e-5, delta: 1e-5, period: 10, 'feature.possible_transitions': 1 });
     const native = await timed(() => trainer.train(`${options.out}/crf-bench.crfsuite`));
     console.log(`  CRFsuite: ${both(native)} in train() (native), plus ${seconds(appended.wallMs)} s handing it the attribute strings`);
     const wallRatio = trained.wallMs / native.wallMs;

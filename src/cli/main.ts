@@ -33,7 +33,7 @@ Usage:
       utterance (default 1000; 0 = no intervals). Exit 2 on malformed or mismatched input.
   slotsmith train FILE... -o MODEL [--iterations N] [--c2 X] [--seed S] [--from FORMAT] [--scheme S]
       Train a CRF slot tagger (window-of-two word features, L-BFGS, L2 weight c2, default 1;
-      at most N iterations, default 100) on labelled files and write the model file.
+      at most N iterations, default 50) on labelled files and write the model file.
   slotsmith tag MODEL IN [-o OUT] [--to iob1|iob2|bioes|jsonl] [--from FORMAT]
       Tag every utterance of IN (any input format, plain text too) with the model; IOB2 by default.
   slotsmith evaluate MODEL GOLD [--json] [--from FORMAT] [--scheme S]

@@ -99,7 +99,7 @@ export class Lattice {
       scale[t] = c;
       for (let j = 0; j < L; j++) alpha[base + j] = (alpha[base + j] as number) * c;
     }
-    // Backward, scaled by the same factors; the pair expectations share its row.
+    // Backward, scaled by the same factors; the pair expectations share its loop over (i, j).
     const pairs = pairOut === null ? null : this.pairs;
     if (pairs !== null) pairs.fill(0);
     const last = (tokens - 1) * L;
@@ -110,24 +110,40 @@ export class Lattice {
       const next = base + L;
       for (let j = 0; j < L; j++) row[j] = (expState[next + j] as number) * (beta[next + j] as number);
       c = scale[t] as number;
-      for (let i = 0; i < L; i++) {
-        const tr = i * L;
-        let s0 = 0;
-        let s1 = 0;
-        let j = 0;
-        for (; j + 1 < L; j += 2) {
-          s0 += (expTrans[tr + j] as number) * (row[j] as number);
-          s1 += (expTrans[tr + j + 1] as number) * (row[j + 1] as number);
-        }
-        if (j < L) s0 += (expTrans[tr + j] as number) * (row[j] as number);
-        beta[base + i] = (s0 + s1) * c;
-      }
-      if (pairs !== null) {
+      if (pairs === null) {
         for (let i = 0; i < L; i++) {
-          const a = alpha[base + i] as number;
-          if (a === 0) continue;
           const tr = i * L;
-          for (let j = 0; j < L; j++) pairs[tr + j] = (pairs[tr + j] as number) + a * (row[j] as number);
+          let s0 = 0;
+          let s1 = 0;
+          let j = 0;
+          for (; j + 1 < L; j += 2) {
+            s0 += (expTrans[tr + j] as number) * (row[j] as number);
+            s1 += (expTrans[tr + j + 1] as number) * (row[j + 1] as number);
+          }
+          if (j < L) s0 += (expTrans[tr + j] as number) * (row[j] as number);
+          beta[base + i] = (s0 + s1) * c;
+        }
+      } else {
+        for (let i = 0; i < L; i++) {
+          const tr = i * L;
+          const a = alpha[base + i] as number;
+          let s0 = 0;
+          let s1 = 0;
+          let j = 0;
+          for (; j + 1 < L; j += 2) {
+            const r0 = row[j] as number;
+            const r1 = row[j + 1] as number;
+            s0 += (expTrans[tr + j] as number) * r0;
+            s1 += (expTrans[tr + j + 1] as number) * r1;
+            pairs[tr + j] = (pairs[tr + j] as number) + a * r0;
+            pairs[tr + j + 1] = (pairs[tr + j + 1] as number) + a * r1;
+          }
+          if (j < L) {
+            const r0 = row[j] as number;
+            s0 += (expTrans[tr + j] as number) * r0;
+            pairs[tr + j] = (pairs[tr + j] as number) + a * r0;
+          }
+          beta[base + i] = (s0 + s1) * c;
         }
       }
     }

@@ -2,6 +2,9 @@ import { CRF_SPAN } from './attributes';
 import { type CrfDataset, unitLabelCounts } from './dataset';
 import { Lattice } from './lattice';
 
+// tokenScoresSum and marginalsToUnits below are unrolled over exactly five window places.
+if (CRF_SPAN !== 5) throw new Error('objective.ts assumes a window of ±2 (CRF_SPAN = 5)');
+
 export interface CrfStructure {
   labelCount: number;
   featureStarts: Int32Array;
@@ -148,15 +151,19 @@ function unitRowsToFeatures(
   }
 }
 
-/** A sequence's state scores (T × L): per token, the sum of its window units' rows. */
+/** A sequence's state scores (T × L): per token, the sum of its window units' rows (five places, CRF_SPAN). */
 function tokenScoresSum(tokenUnits: Int32Array, unitScores: Float64Array, labelCount: number, firstToken: number, tokenCount: number, out: Float64Array): void {
   for (let t = 0; t < tokenCount; t++) {
     const at = (firstToken + t) * CRF_SPAN;
     const row = t * labelCount;
-    for (let j = 0; j < labelCount; j++) out[row + j] = 0;
-    for (let k = 0; k < CRF_SPAN; k++) {
-      const from = (tokenUnits[at + k] as number) * labelCount;
-      for (let j = 0; j < labelCount; j++) out[row + j] = (out[row + j] as number) + (unitScores[from + j] as number);
+    const u0 = (tokenUnits[at] as number) * labelCount;
+    const u1 = (tokenUnits[at + 1] as number) * labelCount;
+    const u2 = (tokenUnits[at + 2] as number) * labelCount;
+    const u3 = (tokenUnits[at + 3] as number) * labelCount;
+    const u4 = (tokenUnits[at + 4] as number) * labelCount;
+    for (let j = 0; j < labelCount; j++) {
+      out[row + j] =
+        (unitScores[u0 + j] as number) + (unitScores[u1 + j] as number) + (unitScores[u2 + j] as number) + (unitScores[u3 + j] as number) + (unitScores[u4 + j] as number);
     }
   }
 }
@@ -166,9 +173,18 @@ function marginalsToUnits(tokenUnits: Int32Array, marginals: Float64Array, label
   for (let t = 0; t < tokenCount; t++) {
     const at = (firstToken + t) * CRF_SPAN;
     const row = t * labelCount;
-    for (let k = 0; k < CRF_SPAN; k++) {
-      const to = (tokenUnits[at + k] as number) * labelCount;
-      for (let j = 0; j < labelCount; j++) out[to + j] = (out[to + j] as number) + (marginals[row + j] as number);
+    const u0 = (tokenUnits[at] as number) * labelCount;
+    const u1 = (tokenUnits[at + 1] as number) * labelCount;
+    const u2 = (tokenUnits[at + 2] as number) * labelCount;
+    const u3 = (tokenUnits[at + 3] as number) * labelCount;
+    const u4 = (tokenUnits[at + 4] as number) * labelCount;
+    for (let j = 0; j < labelCount; j++) {
+      const m = marginals[row + j] as number;
+      out[u0 + j] = (out[u0 + j] as number) + m;
+      out[u1 + j] = (out[u1 + j] as number) + m;
+      out[u2 + j] = (out[u2 + j] as number) + m;
+      out[u3 + j] = (out[u3 + j] as number) + m;
+      out[u4 + j] = (out[u4 + j] as number) + m;
     }
   }
 }
