@@ -7,49 +7,16 @@
  * `npm test` runs SLOTSMITH_CRASH_EDITS=60 edits (about three kills); the full run is
  *   SLOTSMITH_CRASH_EDITS=1000 SLOTSMITH_E2E_PORT=4188 npx playwright test e2e/crash.spec.ts
  */
-import { chromium, expect, test, type BrowserContext, type Page } from '@playwright/test';
-import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { expect, test, type Page } from '@playwright/test';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import config from '../playwright.config';
+import { browserPid, launch, random } from './crash-helpers';
 
 const SLOW = 60_000;
 const EDITS = Number(process.env.SLOTSMITH_CRASH_EDITS ?? 60);
 const SEED = Number(process.env.SLOTSMITH_CRASH_SEED ?? 20_261_202);
 const UTTERANCES = 12;
-
-/** mulberry32: a small seeded generator, so a failing run can be repeated (common practice, no source). */
-function random(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-async function launch(dir: string): Promise<BrowserContext> {
-  const options = config.use?.launchOptions ?? {};
-  return chromium.launchPersistentContext(dir, { headless: true, executablePath: options.executablePath ?? '/usr/bin/chromium', args: options.args ?? [], serviceWorkers: 'block' });
-}
-
-/** The browser process we launched on `dir` (the one without --type=, i.e. not a renderer or helper). */
-function browserPid(dir: string): number {
-  for (const entry of readdirSync('/proc')) {
-    if (!/^\d+$/.test(entry)) continue;
-    let cmdline: string;
-    try {
-      cmdline = readFileSync(`/proc/${entry}/cmdline`, 'utf8');
-    } catch {
-      continue;
-    }
-    const args = cmdline.split('\0');
-    if (args.includes(`--user-data-dir=${dir}`) && !args.some((a) => a.startsWith('--type='))) return Number(entry);
-  }
-  throw new Error(`no browser process for ${dir}`);
-}
 
 interface Layer {
   status: string;
