@@ -12,6 +12,7 @@ import {
   backupHistoryEncode,
   backupLayerEncode,
   backupProjectEncode,
+  backupModelFileCheck,
   backupUtteranceEncode,
   dismissalsRenamed,
   type BackupData,
@@ -43,6 +44,8 @@ export interface BackupFile {
   fileName: string;
   /** Lines of the file, each ending in LF: hand them to `new Blob(parts)` rather than joining. */
   parts: string[];
+  /** What was left out, in words for the user (a stored model no build can read). */
+  warnings: string[];
 }
 
 export type BackupRestoreResult = { ok: true; projectId: number; warnings: ReadError[] } | { ok: false; errors: ReadError[] };
@@ -93,8 +96,13 @@ export async function backupMake(db: SlotsmithDb, projectId: number): Promise<Ba
       });
     const utteranceCount = seqOf.size;
     // A dismissal naming an utterance no longer in the project can never match again: left out.
-    const { dismissed, ...row } = project as ProjectRowFull;
+    const { dismissed, model, ...row } = project as ProjectRowFull;
     const backupProject: BackupProject = dismissed === undefined ? row : { ...row, dismissed: dismissalsRenamed(dismissed, (id) => seqOf.get(id)) };
+    // Restore refuses a model no build can read, so such a one is left out here, not written into a backup that would not restore.
+    const verdict = model === undefined ? null : backupModelFileCheck(model.json);
+    const warnings: string[] = [];
+    if (verdict?.kind === 'broken') warnings.push(`The saved model is not a usable model file (${verdict.message}); it was left out of the backup.`);
+    else if (model !== undefined) backupProject.model = model;
     body[0] = backupProjectEncode(backupProject);
 
     const layerRows = await db.layers.where('[projectId+annotator+status]').between([projectId, minKey, minKey], [projectId, maxKey, maxKey]).toArray();
@@ -114,7 +122,7 @@ export async function backupMake(db: SlotsmithDb, projectId: number): Promise<Ba
     const now = db.clock();
     const counts = { annotators: annotators.length, batches: batches.length, utterances: utteranceCount, layers: layers.length, history: history.length };
     const parts = [backupHeaderEncode(new Date(now).toISOString(), counts), ...body].map((line) => `${line}\n`);
-    return { fileName: fileNameOf(project.name, now), parts };
+    return { fileName: fileNameOf(project.name, now), parts, warnings };
   });
 }
 

@@ -7,9 +7,9 @@
  *
  * Unlike the lenient rest of the record, these are read strictly: each is absent or wholly right,
  * else an error names the line. Half an exchange or a model that will not load is worse than none,
- * and a missing one is at least visible. One exception: a sound model file of another model version
- * or feature set is dropped with a warning, as this build could not tag with it anyway and refusing
- * the whole project over a model that can be trained again would be worse.
+ * and a missing one is at least visible. One exception: a model file of another model version or
+ * feature set is kept with a warning. The Model screen already shows such a stored model as not
+ * readable by this version, and refusing the whole project over it would lose more than it saves.
  *
  * Unknown keys here warn and are ignored: they cannot come from this format version (a newer
  * Slotsmith that adds fields bumps the version and is refused), so they are hand edits; a warning
@@ -123,24 +123,27 @@ function crossValidationRead(r: FieldReader): CrossValidation {
   return { folds, pooled, perFold };
 }
 
-/** 'foreign': a sound file of another model version or feature set (a warning); 'broken': anything else wrong (an error). */
-function modelFileCheck(r: FieldReader, json: string): 'sound' | 'foreign' | 'broken' {
+export type ModelFileVerdict = { kind: 'sound' } | { kind: 'foreign' | 'broken'; message: string };
+
+/**
+ * Whether the model-file reader (src/core/crf/model-file.ts) takes the text. 'foreign': a model file
+ * of another model version or feature set, which this build cannot tag with but the Model screen
+ * shows as such; 'broken': anything else, which no build could use.
+ */
+export function backupModelFileCheck(json: string): ModelFileVerdict {
   try {
     crfModelFromJson(json);
-    return 'sound';
+    return { kind: 'sound' };
   } catch (error) {
+    const message = (error as Error).message;
     let head: unknown = null;
     try {
       head = JSON.parse(json);
     } catch {
-      // Not JSON at all: reported below with the reader's own message.
+      // Not JSON at all: broken, with the reader's own message.
     }
-    if (isPlainObject(head) && head.format === CRF_MODEL_FORMAT && (head.version !== CRF_MODEL_VERSION || head.featureSet !== CRF_FEATURE_SET)) {
-      r.warn(`the saved model is dropped: ${(error as Error).message}`);
-      return 'foreign';
-    }
-    r.fail(`"json" is not a usable model file (${(error as Error).message})`);
-    return 'broken';
+    const foreign = isPlainObject(head) && head.format === CRF_MODEL_FORMAT && (head.version !== CRF_MODEL_VERSION || head.featureSet !== CRF_FEATURE_SET);
+    return { kind: foreign ? 'foreign' : 'broken', message };
   }
 }
 
@@ -154,7 +157,10 @@ function modelRead(r: FieldReader): BackupModel | null {
   if (isPlainObject(cv)) crossValidation = crossValidationRead(r.nested(cv, 'crossValidation'));
   else if (cv !== null) r.fail('"crossValidation" must be an object or null');
   if (r.failed) return null;
-  return modelFileCheck(r, json) === 'sound' ? { json, saved, origin, crossValidation } : null;
+  const verdict = backupModelFileCheck(json);
+  if (verdict.kind === 'broken') r.fail(`"json" is not a usable model file (${verdict.message})`);
+  else if (verdict.kind === 'foreign') r.warn(`kept, but this version cannot tag with it (${verdict.message})`);
+  return r.failed ? null : { json, saved, origin, crossValidation };
 }
 
 const DISMISSAL_KEYS = ['when', 'who'];
