@@ -114,6 +114,10 @@ describe('constrained Viterbi', () => {
         const path = new Int32Array(tokens);
         const score = new ViterbiDecoder(L).decode(tokens, Float64Array.from(state), Float64Array.from(trans), mask.start, mask.pair, path);
         expect(score).toBeCloseTo(want.bestScore, 9);
+        // The back pointers are recomputed along the path only: the path returned must score what was returned.
+        let own = state[path[0] as number] as number;
+        for (let t = 1; t < tokens; t++) own += (trans[(path[t - 1] as number) * L + (path[t] as number)] as number) + (state[t * L + (path[t] as number)] as number);
+        expect(own).toBeCloseTo(score, 9);
       }),
       { seed: 42, numRuns: 300 },
     );

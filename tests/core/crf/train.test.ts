@@ -9,8 +9,11 @@ import {
   crfTrain,
   CrfTrainCancelledError,
   datasetBuild,
+  IntBuffer,
   labelsFromTags,
+  Lattice,
   stateFeaturesCollect,
+  stateScoresFill,
 } from '../../../src/core/crf';
 import { mulberry32Floats } from '../../../src/core/random';
 import { tagParse } from '../../../src/core/schemes';
@@ -54,6 +57,35 @@ describe('training objective', () => {
       w[i] = saved;
       expect(g[i]).toBeCloseTo((up - down) / (2 * h), 5);
     }
+  });
+
+  it('the loss is Σ (log Z − gold path score) + c2·‖w‖², each term computed token by token', () => {
+    const c2 = 0.3;
+    const objective = objectiveOf(c2);
+    const labels = labelsFromTags(TINY.map((s) => s.tags));
+    const L = labels.length;
+    const encoder = new AttributeEncoder();
+    const data = datasetBuild(TINY, encoder, labels);
+    const features = stateFeaturesCollect(data, encoder.size, L);
+    const random = mulberry32Floats(11);
+    const w = Float64Array.from({ length: objective.size }, () => random() - 0.5);
+    const stateCount = features.labels.length;
+    const expTrans = Float64Array.from(w.subarray(stateCount), Math.exp);
+    let want = 0;
+    for (const sequence of TINY) {
+      const ids = new IntBuffer();
+      const ends = new IntBuffer();
+      encoder.encode(sequence.words, ids, ends);
+      const T = sequence.words.length;
+      const state = new Float64Array(T * L);
+      stateScoresFill(features.starts, features.labels, w, L, ends.data, ids.data, 0, T, state);
+      const gold = sequence.tags.map((tag) => labels.indexOf(tag));
+      let score = 0;
+      gold.forEach((y, t) => (score += (state[t * L + y] as number) + (t > 0 ? (w[stateCount + (gold[t - 1] as number) * L + y] as number) : 0)));
+      want += new Lattice(L).run(T, state, expTrans, null) - score;
+    }
+    want += c2 * w.reduce((s, v) => s + v * v, 0);
+    expect(objective.evaluate(w, new Float64Array(objective.size))).toBeCloseTo(want, 9);
   });
 
   it('at zero weights the loss is Σ T·log L (every path equally likely)', () => {
