@@ -6,8 +6,8 @@
  * would need counts of their own for a cut file to be noticed.
  *
  * Unlike the lenient rest of the record, these are read strictly: each is absent or wholly right,
- * else an error names the line. Half an exchange or a model that will not load is worse than none,
- * and a missing one is at least visible. One exception: a model file of another model version or
+ * else an error names the line: half an exchange, or a model that will not load, restored without
+ * a word would fail later, far from its cause. One exception: a model file of another model version or
  * feature set is kept with a warning. The Model screen already shows such a stored model as not
  * readable by this version, and refusing the whole project over it would lose more than it saves.
  *
