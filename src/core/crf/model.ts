@@ -34,7 +34,7 @@ export function modelStateCount(model: Pick<CrfModel, 'featureLabels'>): number 
   return model.featureLabels.length;
 }
 
-/** Add each token's state scores into `out` (T × L, zeroed here). */
+/** Each token's state scores into `out` (T × L, zeroed here), attribute by attribute: the plain form, which training's and tagging's per-unit sums are tested against. */
 export function stateScoresFill(
   featureStarts: Int32Array,
   featureLabels: Uint16Array,
