@@ -2,7 +2,8 @@
  * The browser part of `npm run bench`: in one Chromium run, the raw IndexedDB put rate (the limit),
  * the app's import of the 100k-utterance file through the real UI, the page heap after it, and the
  * export of the same project through "Write out data", key-press-to-paint on the label screen of that
- * project, and the agreement dashboard on a 100k double-annotated project. Numbers are printed,
+ * project, the agreement dashboard on a 100k double-annotated project, and the page's longest task
+ * while the Model screen trains on the demo project. Numbers are printed,
  * never asserted.
  */
 import { existsSync, mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
@@ -16,6 +17,7 @@ import { appExport, appImport, heapAfterGc } from './app-flow';
 import { agreementDashboardBench, agreementDashboardPrint } from './agreement-dashboard';
 import { idbRawRate } from './idb-raw';
 import { labelKeysBench } from './label-keys';
+import { modelTrainBench, modelTrainPrint } from './model-train';
 import { workerCdp, workerHeap, workerHeapPeak } from './worker-cdp';
 import { distEnsure, previewStart } from './server';
 
@@ -118,6 +120,7 @@ export async function browserBench(options: BrowserBenchOptions): Promise<void> 
     console.log(`\n== browser: label screen of the ${count.toLocaleString('en')}-utterance project`);
     await labelKeysBench(page, server.url, projectId);
     agreementDashboardPrint(await agreementDashboardBench(page, server.url, { out: options.out, count, seed: options.seed }));
+    modelTrainPrint(await modelTrainBench(page, server.url));
 
     // The same presses with frames drawn as soon as they are ready (no wait for the 60 Hz clock): what
     // remains is the app's own work from key to paint, whatever the phase of the press in the frame.

@@ -25,6 +25,19 @@ export interface CrfTrainRequest {
   folds?: number;
 }
 
+/** Training a project's model: the worker reads the training set itself (see `trainProject`). */
+export type CrfProjectTrainRequest = Omit<CrfTrainRequest, 'sequences'> & { projectId: number };
+
+/** What the training set held: utterances used, and where their labels came from. */
+export interface TrainingSetInfo {
+  utterances: number;
+  fromGold: number;
+  fromDone: number;
+}
+
+/** Not ok: fewer than two utterances to learn from. */
+export type CrfProjectTrainOutcome = { ok: true; info: TrainingSetInfo; outcome: CrfTrainOutcome } | { ok: false; info: TrainingSetInfo };
+
 export interface CrfRunProgress {
   phase: 'cross-validating' | 'training';
   /** 0-based fold while cross-validating. */

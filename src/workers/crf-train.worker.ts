@@ -1,13 +1,31 @@
 /** CRF training and tagging off the page's thread; `cancel` is answered between iterations. */
 import * as Comlink from 'comlink';
-import { crfRunnerCreate, type CrfRunProgress, type CrfTrainRequest } from './crf-run';
+import { modelTrainingSet } from '../db/model-repo';
+import { dbOpen, type SlotsmithDb } from '../db/schema';
+import { crfRunnerCreate, type CrfProjectTrainOutcome, type CrfProjectTrainRequest, type CrfRunProgress, type CrfTrainRequest, type TrainingSetInfo } from './crf-run';
 
 const runner = crfRunnerCreate();
+let db: SlotsmithDb | undefined;
 
 const api = {
   /** `onProgress` arrives as a Comlink proxy; its calls are not awaited, so progress never slows training. */
   train(request: CrfTrainRequest, onProgress: (p: CrfRunProgress) => void) {
     return runner.train(request, (p) => void onProgress(p));
+  },
+  /**
+   * Read the project's training set here, over the worker's own connection, then train: the page
+   * never holds (or copies) the layers. `onSet` says what was read before training starts.
+   */
+  async trainProject(request: CrfProjectTrainRequest, onSet: (info: TrainingSetInfo) => void, onProgress: (p: CrfRunProgress) => void): Promise<CrfProjectTrainOutcome> {
+    db ??= dbOpen();
+    const set = await modelTrainingSet(db, request.projectId);
+    const info: TrainingSetInfo = { utterances: set.sequences.length, fromGold: set.fromGold, fromDone: set.fromDone };
+    void onSet(info);
+    if (set.sequences.length < 2) return { ok: false, info };
+    const { projectId: _projectId, ...options } = request;
+    const folds = Math.min(options.folds ?? 0, set.sequences.length);
+    const outcome = await runner.train({ ...options, sequences: set.sequences, folds: folds >= 2 ? folds : 0 }, (p) => void onProgress(p));
+    return { ok: true, info, outcome };
   },
   cancel() {
     runner.cancel();

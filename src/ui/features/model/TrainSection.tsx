@@ -1,21 +1,24 @@
 import { useEffect, useRef, useState } from 'react';
-import { modelTrainingSet, projectModelSave } from '../../../db/model-repo';
-import type { CrfRunProgress, CrfTrainOutcome } from '../../../workers/crf-run';
+import { projectModelSave } from '../../../db/model-repo';
+import type { CrfProjectTrainOutcome, CrfRunProgress, TrainingSetInfo } from '../../../workers/crf-run';
 import { JobCancelledError, type WorkerJob } from '../../../workers/worker-job';
 import { appDb } from '../../app/db';
-import { modelTrainStart } from './model-client';
+import { modelTrainProjectStart } from './model-client';
 import { trainProgressShare, trainProgressText } from './model-reading';
 
 type Phase = { kind: 'idle' } | { kind: 'reading' } | { kind: 'running'; used: string; progress: CrfRunProgress | null } | { kind: 'done'; used: string } | { kind: 'failed'; message: string };
 
 const count = (n: number, word: string) => `${n.toLocaleString('en')} ${word}${n === 1 ? '' : 's'}`;
 
+const usedText = (info: TrainingSetInfo) =>
+  `${count(info.utterances, 'utterance')} used: ${info.fromGold.toLocaleString('en')} from the gold layer, ${info.fromDone.toLocaleString('en')} from an annotator's done layer (where several annotators finished one, the first by name).`;
+
 /** Training from the finished layers, in a worker, with cross-validation first. */
 export function TrainSection({ projectId }: { projectId: number }) {
   const [iterations, setIterations] = useState(100);
   const [folds, setFolds] = useState(5);
   const [phase, setPhase] = useState<Phase>({ kind: 'idle' });
-  const job = useRef<WorkerJob<CrfTrainOutcome> | null>(null);
+  const job = useRef<WorkerJob<CrfProjectTrainOutcome> | null>(null);
 
   useEffect(
     () => () => {
@@ -28,23 +31,29 @@ export function TrainSection({ projectId }: { projectId: number }) {
   async function train() {
     setPhase({ kind: 'reading' });
     try {
-      const set = await modelTrainingSet(appDb(), projectId);
-      if (set.sequences.length < 2) {
+      // The worker reads the finished layers itself: at 100k utterances, reading them here would hold up the page.
+      let used = '';
+      const current = modelTrainProjectStart(
+        { projectId, maxIterations: iterations, folds },
+        (info) => {
+          used = usedText(info);
+          if (job.current === current && info.utterances >= 2) setPhase({ kind: 'running', used, progress: null });
+        },
+        (progress) => {
+          if (job.current === current) setPhase({ kind: 'running', used, progress });
+        },
+      );
+      job.current = current;
+      const result = await current.result;
+      if (job.current !== current) return;
+      job.current = null;
+      if (!result.ok) {
         setPhase({ kind: 'failed', message: 'Training needs at least two utterances with a gold layer or a done layer.' });
         return;
       }
-      const used = `${count(set.sequences.length, 'utterance')} used: ${set.fromGold.toLocaleString('en')} from the gold layer, ${set.fromDone.toLocaleString('en')} from an annotator's done layer (where several annotators finished one, the first by name).`;
-      const k = Math.min(folds, set.sequences.length);
-      const current = modelTrainStart({ sequences: set.sequences, maxIterations: iterations, folds: k >= 2 ? k : 0 }, (progress) => {
-        if (job.current === current) setPhase({ kind: 'running', used, progress });
-      });
-      job.current = current;
-      setPhase({ kind: 'running', used, progress: null });
-      const outcome = await current.result;
-      if (job.current !== current) return;
-      job.current = null;
+      const { outcome } = result;
       await projectModelSave(appDb(), projectId, { json: outcome.modelJson, origin: 'trained', crossValidation: outcome.crossValidation });
-      setPhase({ kind: 'done', used });
+      setPhase({ kind: 'done', used: usedText(result.info) });
     } catch (error) {
       job.current = null;
       setPhase(error instanceof JobCancelledError ? { kind: 'idle' } : { kind: 'failed', message: (error as Error).message });

@@ -1,6 +1,6 @@
 /** The tagger's worker from the page: one worker per training run, one per pre-labelling run. */
 import * as Comlink from 'comlink';
-import type { CrfRunProgress, CrfTagItem, CrfTrainOutcome, CrfTrainRequest } from '../../../workers/crf-run';
+import type { CrfProjectTrainOutcome, CrfProjectTrainRequest, CrfRunProgress, CrfTagItem, TrainingSetInfo } from '../../../workers/crf-run';
 import type { CrfWorkerApi } from '../../../workers/crf-train.worker';
 import { workerCrashed, workerJobStart, type WorkerJob } from '../../../workers/worker-job';
 
@@ -17,12 +17,21 @@ function crfWorker(): { api: Comlink.Remote<CrfWorkerApi>; crashed: Promise<neve
   };
 }
 
-/** Cancel ends the worker at once: a half-trained model is of no use, so nothing is waited for. */
-export function modelTrainStart(request: CrfTrainRequest, onProgress: (p: CrfRunProgress) => void): WorkerJob<CrfTrainOutcome> {
-  return workerJobStart<Comlink.Remote<CrfWorkerApi>, CrfRunProgress, CrfTrainOutcome>(
+/**
+ * Train on the project's finished layers, read in the worker (the page never holds them): `onSet`
+ * hears what was read, then `onProgress` the iterations. Cancel ends the worker at once.
+ */
+export function modelTrainProjectStart(request: CrfProjectTrainRequest, onSet: (info: TrainingSetInfo) => void, onProgress: (p: CrfRunProgress) => void): WorkerJob<CrfProjectTrainOutcome> {
+  type Message = { set: TrainingSetInfo } | { progress: CrfRunProgress };
+  return workerJobStart<Comlink.Remote<CrfWorkerApi>, Message, CrfProjectTrainOutcome>(
     crfWorker(),
-    (api, progress) => api.train(request, Comlink.proxy(progress)) as Promise<CrfTrainOutcome>,
-    onProgress,
+    (api, message) =>
+      api.trainProject(
+        request,
+        Comlink.proxy((set: TrainingSetInfo) => message({ set })),
+        Comlink.proxy((progress: CrfRunProgress) => message({ progress })),
+      ) as Promise<CrfProjectTrainOutcome>,
+    (m) => ('set' in m ? onSet(m.set) : onProgress(m.progress)),
     'Training',
   );
 }
