@@ -167,7 +167,9 @@ test('backup, delete the project, restore: the export is identical', async ({ pa
 test('a backup from a newer Slotsmith, or a broken one, is refused with line numbers and stores nothing; a copy gets a free name', async ({ page }) => {
   const lines = seedText.split('\n');
   const newer = join(work, 'newer.slotsmith-backup.jsonl');
-  writeFileSync(newer, [lines[0]?.replace('"formatVersion":1', '"formatVersion":99'), ...lines.slice(1)].join('\n'));
+  const newerText = [lines[0]?.replace(/"formatVersion":\d+/, '"formatVersion":99'), ...lines.slice(1)].join('\n');
+  expect(newerText).toContain('"formatVersion":99');
+  writeFileSync(newer, newerText);
   const broken = join(work, 'broken.slotsmith-backup.jsonl');
   writeFileSync(broken, [...lines.slice(0, 3), '{"type":"utterance","seq":"x"', ...lines.slice(3)].join('\n'));
 

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { tokeniseWhitespace } from '../../src/core/tokenise';
+import { BACKUP_FORMAT_VERSION } from '../../src/core/backup';
 import type { Utterance } from '../../src/core/types';
 import { backupMake } from '../../src/db/backup-repo';
 import { projectCreate } from '../../src/db/project-repo';
@@ -62,8 +63,9 @@ describe('restoreRun', () => {
     if (refused.ok) return;
     expect(refused.errors[0]).toEqual({ line: 4, message: 'not valid JSON' });
     expect(refused.errors.map((e) => e.line)).toContain(8);
-    const newer = [lines[0]?.replace('"formatVersion":1', '"formatVersion":99'), ...lines.slice(1)].join('\n');
-    expect(await restoreRun(db, new Blob([newer]))).toEqual({ ok: false, errors: [{ line: 1, message: 'made by a newer Slotsmith (format 99); this version reads up to 1' }] });
+    const newer = [lines[0]?.replace(/"formatVersion":\d+/, '"formatVersion":99'), ...lines.slice(1)].join('\n');
+    expect(newer).toContain('"formatVersion":99');
+    expect(await restoreRun(db, new Blob([newer]))).toEqual({ ok: false, errors: [{ line: 1, message: `made by a newer Slotsmith (format 99); this version reads up to ${BACKUP_FORMAT_VERSION}` }] });
     expect(await restoreRun(db, new Blob(['not a backup at all\n']))).toMatchObject({ ok: false, errors: [{ line: 1 }] });
     expect(await dbDump(db)).toEqual(before);
   });

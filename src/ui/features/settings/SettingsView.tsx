@@ -104,7 +104,8 @@ function BackupSection({ projectId }: ProjectViewProps) {
       link.remove();
       // The download has taken its copy once click() returns; a minute's grace for slow browsers.
       setTimeout(() => URL.revokeObjectURL(url), 60_000);
-      setMessage({ error: false, text: `Saved ${file.fileName} to your downloads.` });
+      const left = file.warnings.length === 0 ? '' : ` Left out: ${file.warnings.join(' ')}`;
+      setMessage({ error: false, text: `Saved ${file.fileName} to your downloads.${left}` });
     } catch (error) {
       setMessage({ error: true, text: `The backup could not be made: ${(error as Error).message}` });
     } finally {
@@ -115,7 +116,7 @@ function BackupSection({ projectId }: ProjectViewProps) {
   return (
     <section aria-labelledby="backup-title">
       <h3 id="backup-title">Backup</h3>
-      <p>One file with the labels, utterances, annotators and edit history of this project.</p>
+      <p>One file with the labels, utterances, annotators and edit history of this project, and its saved model, team-work packs and dismissed findings.</p>
       <button type="button" onClick={() => void save()} disabled={busy}>
         Save a backup of this project
       </button>
