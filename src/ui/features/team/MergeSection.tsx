@@ -13,6 +13,7 @@ export function MergeSection({ projectId }: { projectId: number }) {
   const id = useId();
   const [results, setResults] = useState<Result[]>([]);
   const [busy, setBusy] = useState(false);
+  const [current, setCurrent] = useState<{ at: number; of: number; file: string } | null>(null);
 
   async function merge(event: ChangeEvent<HTMLInputElement>) {
     const input = event.target;
@@ -22,14 +23,18 @@ export function MergeSection({ projectId }: { projectId: number }) {
     if (files.length === 0) return;
     setBusy(true);
     const out: Result[] = [];
-    for (const file of files) {
+    setResults([]);
+    for (const [at, file] of files.entries()) {
+      setCurrent({ at: at + 1, of: files.length, file: file.name });
       try {
         out.push({ file: file.name, ...(await layersMerge(appDb(), projectId, await file.text())) });
       } catch (error) {
         out.push({ file: file.name, ok: 'failed', message: (error as Error).message });
       }
+      // Shown file by file: each is merged whole on its own, so what is listed is in, whatever happens next.
+      setResults([...out]);
     }
-    setResults(out);
+    setCurrent(null);
     setBusy(false);
   }
 
@@ -42,9 +47,12 @@ export function MergeSection({ projectId }: { projectId: number }) {
         <label htmlFor={`${id}-files`}>Layer files to merge</label>{' '}
         <input id={`${id}-files`} type="file" multiple accept=".jsonl,application/x-ndjson" onChange={(e) => void merge(e)} disabled={busy} />
       </p>
-      <p className="muted">Each file is checked first (project, checksums, utterances, token counts); a file with any problem changes nothing.</p>
+      <p className="muted">
+        Each file is checked first (project, checksums, utterances, token counts); a file with any problem changes nothing. Files are merged one at a time, each whole or not
+        at all: if the page closes part-way, the files listed below as merged are in, and choosing the others again is safe (a file merged twice changes nothing more).
+      </p>
       <div aria-live="polite">
-        {busy && <p>Checking and merging…</p>}
+        {busy && <p>{current === null ? 'Checking and merging…' : `Checking and merging ${current.file} (file ${current.at} of ${current.of})…`}</p>}
         {results.map((r, i) =>
           r.ok === true ? (
             <p key={i} role="status">
