@@ -1,4 +1,5 @@
 import { useEffect, useRef, useState } from 'react';
+import { CRF_DEFAULTS } from '../../../core/crf';
 import { projectModelSave } from '../../../db/model-repo';
 import type { CrfProjectTrainOutcome, CrfRunProgress, TrainingSetInfo } from '../../../workers/crf-run';
 import { JobCancelledError, type WorkerJob } from '../../../workers/worker-job';
@@ -15,7 +16,7 @@ const usedText = (info: TrainingSetInfo) =>
 
 /** Training from the finished layers, in a worker, with cross-validation first. */
 export function TrainSection({ projectId }: { projectId: number }) {
-  const [iterations, setIterations] = useState(100);
+  const [iterations, setIterations] = useState<number>(CRF_DEFAULTS.maxIterations);
   const [folds, setFolds] = useState(5);
   const [phase, setPhase] = useState<Phase>({ kind: 'idle' });
   const job = useRef<WorkerJob<CrfProjectTrainOutcome> | null>(null);
