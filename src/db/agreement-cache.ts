@@ -2,7 +2,7 @@
  * The agreement dashboard's last results, in a database of their own (`slotsmith-agreement-cache`,
  * not the app's schema: a cache, safe to lose). A result is kept with the project's signature at the
  * start of its run (see `corpusIndexSignature`: every write to a project's layers adds a history row,
- * changes the layer count or the project row), so reopening the screen on unchanged layers shows the
+ * changes an import batch or the project row), so reopening the screen on unchanged layers shows the
  * figures at once; any change makes the signature differ and the figures are computed again.
  */
 import { corpusSignatureSame, type CorpusSignature } from './corpus-index';
@@ -10,7 +10,7 @@ import { corpusSignatureSame, type CorpusSignature } from './corpus-index';
 export const AGREEMENT_CACHE_DB = 'slotsmith-agreement-cache';
 const STORE = 'results';
 /** Raise when the stored result changes shape: entries of another shape are ignored. */
-export const AGREEMENT_CACHE_FORMAT = 1;
+export const AGREEMENT_CACHE_FORMAT = 2;
 /** Results kept per project (one per choice of layers, statuses and resamples): the oldest go first. */
 export const AGREEMENT_CACHE_PER_PROJECT = 6;
 

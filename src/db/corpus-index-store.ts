@@ -8,7 +8,7 @@ import type { CorpusIndex } from './corpus-index';
 export const CORPUS_INDEX_DB = 'slotsmith-corpus-index';
 const STORE = 'indexes';
 /** Raise when CorpusIndex changes shape: copies of another shape are ignored (and rebuilt). */
-export const CORPUS_INDEX_FORMAT = 1;
+export const CORPUS_INDEX_FORMAT = 2;
 
 interface Stored {
   projectId: number;

@@ -55,30 +55,33 @@ const CHUNK = 5000;
 /** More edited utterances than this since the index was built: rebuilding is as quick as updating. */
 const UPDATE_MAX = 5000;
 
-/** What an index was built from; cheap to read (index counts, the project row, one history key). */
+/**
+ * What an index was built from; cheap to read: the project row, its import batches (a few rows) and
+ * one history key — no counting, which on a disk-backed IndexedDB walks every index entry (seconds at
+ * 100k). Every write to a project's layers either adds a history row (edits, merges, pre-labels,
+ * repairs, schema edits), changes a batch (imports, in progress or rolled back), or changes the row.
+ */
 export interface CorpusSignature {
   /** The project's scheme and schema (and its last change), as JSON; 'missing' when it is gone. */
   project: string;
-  utterances: number;
-  layers: number;
+  /** The project's import batches as [id, state, utterances, layers], as JSON. */
+  batches: string;
   /** Highest history id of the project (0: none): every label edit writes one history row. */
   historyLast: number;
 }
 
 export async function corpusIndexSignature(db: SlotsmithDb, projectId: number): Promise<CorpusSignature> {
-  const { minKey, maxKey } = Dexie;
-  return db.transaction('r', [db.projects, db.utterances, db.layers, db.history], async () => {
+  return db.transaction('r', [db.projects, db.batches, db.history], async () => {
     const project = await db.projects.get(projectId);
-    if (project === undefined) return { project: 'missing', utterances: 0, layers: 0, historyLast: 0 };
-    const utterances = await db.utterances.where('[projectId+seq]').between([projectId, minKey], [projectId, maxKey]).count();
-    const layers = await db.layers.where('[projectId+annotator+status]').between([projectId, minKey, minKey], [projectId, maxKey, maxKey]).count();
+    if (project === undefined) return { project: 'missing', batches: '[]', historyLast: 0 };
+    const batches = (await db.batches.where('projectId').equals(projectId).toArray()).map((b) => [b.id, b.state, b.counts.utterances, b.counts.layers]);
     const last = await db.history.where('projectId').equals(projectId).reverse().limit(1).primaryKeys();
-    return { project: JSON.stringify([project.updated, project.scheme, project.schema]), utterances, layers, historyLast: last[0] ?? 0 };
+    return { project: JSON.stringify([project.updated, project.scheme, project.schema]), batches: JSON.stringify(batches), historyLast: last[0] ?? 0 };
   });
 }
 
 export function corpusSignatureSame(a: CorpusSignature, b: CorpusSignature): boolean {
-  return a.project === b.project && a.utterances === b.utterances && a.layers === b.layers && a.historyLast === b.historyLast;
+  return a.project === b.project && a.batches === b.batches && a.historyLast === b.historyLast;
 }
 
 function columnMake(n: number): LayerColumn {
@@ -188,7 +191,8 @@ export async function corpusIndexBuild(db: SlotsmithDb, projectId: number, onPro
   const signature = await corpusIndexSignature(db, projectId);
   const project = await db.projects.get(projectId);
   if (project === undefined) throw new Error(`project ${projectId} does not exist`);
-  const n = signature.utterances;
+  // Counted once here: a full build reads every utterance anyway.
+  const n = await db.utterances.where('[projectId+seq]').between([projectId, Dexie.minKey], [projectId, Dexie.maxKey]).count();
   const index: CorpusIndex = {
     projectId,
     signature,
@@ -253,19 +257,18 @@ function positionOf(index: CorpusIndex, utteranceId: number): number | undefined
 
 /**
  * Bring the index up to `next` in place when only label edits happened since it was built: the
- * same utterances and project settings, and as many new layers as the new history rows created.
+ * same project settings and imports, so every changed layer has a history row since.
  * Returns false when that does not hold (an import, a deletion, a schema change): rebuild then.
  */
 export async function corpusIndexUpdate(db: SlotsmithDb, index: CorpusIndex, next: CorpusSignature): Promise<boolean> {
   const before = index.signature;
-  if (next.project !== before.project || next.utterances !== before.utterances || next.historyLast < before.historyLast) return false;
+  if (next.project !== before.project || next.batches !== before.batches || next.historyLast < before.historyLast) return false;
   const { minKey, maxKey } = Dexie;
   const projectId = index.projectId;
   const done = await db.transaction('r', [db.projects, db.history, db.layers], async () => {
     const edits = (await db.history.where(':id').above(before.historyLast).toArray()).filter((h) => h.projectId === projectId && h.id <= next.historyLast);
-    const created = edits.filter((h) => h.before === null).length;
     const touched = [...new Set(edits.map((h) => h.utteranceId))];
-    if (before.layers + created !== next.layers || touched.length > UPDATE_MAX) return null;
+    if (touched.length > UPDATE_MAX) return null;
     const project = await db.projects.get(projectId);
     if (project === undefined) return null;
     const layers: LayerRow[] = [];

@@ -5,6 +5,7 @@
 import Dexie from 'dexie';
 import type { LayerStatus } from '../core/backup/model';
 import { annotatorIsHuman, labelSchemaOf, layersDisagree, layersDone, layerViolationCount } from './corpus-facts';
+import { layerKeysDistinct } from './layer-keys';
 import type { LayerRow, SlotsmithDb } from './schema';
 
 export interface CorpusRow {
@@ -88,8 +89,6 @@ export async function corpusIdsInSeqOrder(db: SlotsmithDb, projectId: number): P
 
 /** The layer owners of the project, from the index keys alone: people sorted, then gold and model. */
 export async function corpusAnnotators(db: SlotsmithDb, projectId: number): Promise<string[]> {
-  const { minKey, maxKey } = Dexie;
-  const keys = (await db.layers.where('[projectId+annotator+status]').between([projectId, minKey, minKey], [projectId, maxKey, maxKey]).uniqueKeys()) as unknown as [number, string, string][];
-  const names = [...new Set(keys.map((k) => k[1]))];
+  const names = [...new Set((await layerKeysDistinct(db, projectId)).map((k) => k[1]))];
   return names.sort((a, b) => Number(!annotatorIsHuman(a)) - Number(!annotatorIsHuman(b)) || (a < b ? -1 : a > b ? 1 : 0));
 }

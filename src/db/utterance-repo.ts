@@ -1,6 +1,7 @@
 /** Reading utterances: keyset pages in project order, single rows, and progress counts. */
 import Dexie from 'dexie';
 import { LAYER_STATUSES, type LayerStatus } from '../core/backup/model';
+import { layerKeysDistinct } from './layer-keys';
 import type { SlotsmithDb, UtteranceRow } from './schema';
 
 /**
@@ -32,10 +33,8 @@ export interface ProjectCounts {
 
 /** Counts from the indexes alone, without reading rows. */
 export async function projectCounts(db: SlotsmithDb, projectId: number): Promise<ProjectCounts> {
-  const { minKey, maxKey } = Dexie;
   return db.transaction('r', [db.utterances, db.layers], async () => {
-    const index = db.layers.where('[projectId+annotator+status]');
-    const keys = (await index.between([projectId, minKey, minKey], [projectId, maxKey, maxKey]).uniqueKeys()) as unknown as [number, string, LayerStatus][];
+    const keys = await layerKeysDistinct(db, projectId);
     const layers: ProjectCounts['layers'] = {};
     for (const [, annotator, status] of keys) {
       layers[annotator] ??= Object.fromEntries(LAYER_STATUSES.map((s) => [s, 0])) as Record<LayerStatus, number>;

@@ -7,6 +7,7 @@
  */
 import Dexie from 'dexie';
 import type { LayerStatus } from '../core/backup/model';
+import { layerKeysDistinct, type LayerIndexKey } from '../db/layer-keys';
 import type { LayerRow, SlotsmithDb } from '../db/schema';
 
 // Utterance ids per page: 100k utterances take ~50 reads, and one page's rows stay a few MB.
@@ -26,29 +27,39 @@ export interface LayerScanProgress {
   total: number;
 }
 
-type IndexKey = [number, string, LayerStatus];
+
+/** The (annotator, status) keys a choice meets, among those the project has. */
+async function candidateKeys(db: SlotsmithDb, choice: LayerScanChoice): Promise<LayerIndexKey[]> {
+  return (await layerKeysDistinct(db, choice.projectId)).filter(
+    ([, annotator, status]) => (choice.annotators === null || choice.annotators.includes(annotator)) && (choice.statuses === null || choice.statuses.includes(status)),
+  );
+}
 
 /**
- * The lowest and highest utterance id carrying a chosen layer: per chosen (annotator, status) index
- * key, its first and last entry (entries of one key are in primary-key order, so utterance order).
- * A handful of index reads, however large the project; null when no layer is chosen.
+ * The lowest and highest utterance id carrying a chosen layer: per candidate (annotator, status)
+ * index key, its first and last entry (entries of one key are in primary-key order, so utterance
+ * order). A handful of index reads, however large the project; null when no layer is chosen.
  */
 export async function layerUtteranceSpan(db: SlotsmithDb, choice: LayerScanChoice): Promise<{ first: number; last: number } | null> {
-  const { minKey, maxKey } = Dexie;
-  const index = db.layers.where('[projectId+annotator+status]');
-  const present = (await index.between([choice.projectId, minKey, minKey], [choice.projectId, maxKey, maxKey]).uniqueKeys()) as unknown as IndexKey[];
   let first = Infinity;
   let last = -Infinity;
-  for (const key of present) {
-    const [, annotator, status] = key;
-    if (choice.annotators !== null && !choice.annotators.includes(annotator)) continue;
-    if (choice.statuses !== null && !choice.statuses.includes(status)) continue;
-    const low = (await db.layers.where('[projectId+annotator+status]').equals(key).limit(1).primaryKeys()) as unknown as [number, string][];
+  for (const key of await candidateKeys(db, choice)) {
+    const index = db.layers.where('[projectId+annotator+status]');
+    const low = (await index.equals(key).limit(1).primaryKeys()) as unknown as [number, string][];
+    if (low.length === 0) continue;
     const high = (await db.layers.where('[projectId+annotator+status]').equals(key).reverse().limit(1).primaryKeys()) as unknown as [number, string][];
     first = Math.min(first, low[0]?.[0] ?? Infinity);
     last = Math.max(last, high[0]?.[0] ?? -Infinity);
   }
   return first <= last ? { first, last } : null;
+}
+
+/** Whether any layer of `annotator` has one of `statuses`: one key read each, no counting. */
+export async function layersExist(db: SlotsmithDb, projectId: number, annotator: string, statuses: readonly LayerStatus[]): Promise<boolean> {
+  for (const s of statuses) {
+    if ((await db.layers.where('[projectId+annotator+status]').equals([projectId, annotator, s]).limit(1).primaryKeys()).length > 0) return true;
+  }
+  return false;
 }
 
 function rowChosen(row: LayerRow, choice: LayerScanChoice): boolean {
@@ -113,9 +124,8 @@ export async function layersScan(
 
 /** Chosen layers per annotator and status, from the index alone (no rows read). */
 export async function layerStatusCounts(db: SlotsmithDb, projectId: number): Promise<Record<string, Partial<Record<LayerStatus, number>>>> {
-  const { minKey, maxKey } = Dexie;
   const index = db.layers.where('[projectId+annotator+status]');
-  const keys = (await index.between([projectId, minKey, minKey], [projectId, maxKey, maxKey]).uniqueKeys()) as unknown as IndexKey[];
+  const keys = await layerKeysDistinct(db, projectId);
   const counts: Record<string, Partial<Record<LayerStatus, number>>> = {};
   for (const key of keys) {
     const [, annotator, status] = key;
