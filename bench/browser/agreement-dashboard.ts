@@ -11,7 +11,9 @@
  * Standalone: `npx tsx bench/browser/agreement-dashboard.ts` (serves AGREEMENT_BENCH_DIST, default
  * dist/, which must hold a build; BENCH_COUNT sets the size).
  */
-import { existsSync, readFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { spawn } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { chromium, type Page } from '@playwright/test';
@@ -234,7 +236,9 @@ async function standalone(): Promise<void> {
   const count = Number(process.env.BENCH_COUNT ?? 100_000);
   const server = spawn('npx', ['vite', 'preview', '--port', String(port), '--strictPort', '--host', '127.0.0.1', '--outDir', dist, '--bypass-lock'], { cwd: root, detached: true, stdio: ['ignore', 'ignore', 'inherit'] });
   const url = `http://127.0.0.1:${port}`;
-  const browser = await chromium.launch({ executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium', headless: true, args: ['--no-sandbox', '--disable-gpu'] });
+  // A profile on disk, as a user's browser has: IndexedDB then lives on disk, not in memory.
+  const profile = mkdtempSync(join(tmpdir(), 'slotsmith-dashboard-profile-'));
+  const browser = await chromium.launchPersistentContext(profile, { executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium', headless: true, args: ['--no-sandbox', '--disable-gpu'] });
   try {
     for (let tries = 0; ; tries++) {
       try {
@@ -248,6 +252,7 @@ async function standalone(): Promise<void> {
     agreementDashboardPrint(await agreementDashboardBench(page, url, { out: `${root}/bench/out`, count, seed: 20417 }));
   } finally {
     await browser.close();
+    rmSync(profile, { recursive: true, force: true });
     try {
       if (server.pid !== undefined && server.exitCode === null) process.kill(-server.pid, 'SIGTERM');
     } catch {

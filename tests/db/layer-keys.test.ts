@@ -17,7 +17,7 @@ describe('layerKeysDistinct', () => {
       const batchId = await batchBegin(db, projectId, { fileName: 'a.iob', format: 'columns', annotator: p === 0 ? 'ana' : 'ben' });
       const ids = (await batchAppend(db, batchId, { utterances: SAMPLE })).utteranceIds;
       for (const [i, id] of ids.entries()) {
-        const status = LAYER_STATUSES[(i + p) % LAYER_STATUSES.length];
+        const status = LAYER_STATUSES[(i + p) % LAYER_STATUSES.length] ?? 'done';
         await layerSave(db, [id, 'gold'], { status }, { expectedRevision: 0, who: 'rosa' });
         if (i % 2 === 0) await layerSave(db, [id, 'cleo'], { status: 'done' }, { expectedRevision: 0, who: 'cleo' });
       }
