@@ -38,6 +38,19 @@ export interface TrainingSetInfo {
 /** Not ok: fewer than two utterances to learn from. */
 export type CrfProjectTrainOutcome = { ok: true; info: TrainingSetInfo; outcome: CrfTrainOutcome } | { ok: false; info: TrainingSetInfo };
 
+/** A model file in short, or why it cannot be read. */
+export type CrfModelSummary = { ok: true; labels: number; training: CrfTrainingRecord } | { ok: false; message: string };
+
+/** Read a model file fully (the page should not: a big model takes a long task to decode). */
+export function crfModelSummary(json: string): CrfModelSummary {
+  try {
+    const model = crfModelFromJson(json);
+    return { ok: true, labels: model.labels.length, training: model.training };
+  } catch (error) {
+    return { ok: false, message: (error as Error).message };
+  }
+}
+
 export interface CrfRunProgress {
   phase: 'cross-validating' | 'training';
   /** 0-based fold while cross-validating. */

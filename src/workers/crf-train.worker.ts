@@ -2,7 +2,7 @@
 import * as Comlink from 'comlink';
 import { modelTrainingSet } from '../db/model-repo';
 import { dbOpen, type SlotsmithDb } from '../db/schema';
-import { crfRunnerCreate, type CrfProjectTrainOutcome, type CrfProjectTrainRequest, type CrfRunProgress, type CrfTrainRequest, type TrainingSetInfo } from './crf-run';
+import { crfModelSummary, crfRunnerCreate, type CrfProjectTrainOutcome, type CrfProjectTrainRequest, type CrfRunProgress, type CrfTrainRequest, type TrainingSetInfo } from './crf-run';
 
 const runner = crfRunnerCreate();
 let db: SlotsmithDb | undefined;
@@ -29,6 +29,9 @@ const api = {
   },
   cancel() {
     runner.cancel();
+  },
+  summary(modelJson: string) {
+    return crfModelSummary(modelJson);
   },
   modelLoad(modelJson: string) {
     return runner.modelLoad(modelJson);

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { crfModelFromJson, CrfTrainCancelledError } from '../../src/core/crf';
-import { crfRunnerCreate, type CrfRunProgress } from '../../src/workers/crf-run';
+import { crfModelSummary, crfRunnerCreate, type CrfRunProgress } from '../../src/workers/crf-run';
 import { TINY } from '../core/crf/fixtures';
 
 describe('crf worker run module', () => {
@@ -52,5 +52,13 @@ describe('crf worker run module', () => {
     expect(() => tagger.tag([['hello']])).toThrow(/no model/);
     expect(tagger.modelLoad(modelJson)[0]).toBe('O');
     expect(tagger.tag([['book', 'a', 'plumber']])[0]?.tags).toEqual(trainer.tag([['book', 'a', 'plumber']])[0]?.tags);
+  });
+
+  it('summarises a model file for the Model screen, and says why a broken one cannot be read', async () => {
+    const { modelJson } = await crfRunnerCreate().train({ sequences: TINY, maxIterations: 10 }, () => {});
+    const model = crfModelFromJson(modelJson);
+    expect(crfModelSummary(modelJson)).toEqual({ ok: true, labels: model.labels.length, training: model.training });
+    expect(crfModelSummary('{"format":"something else"}')).toMatchObject({ ok: false, message: expect.stringMatching(/not a/) as unknown as string });
+    expect(crfModelSummary('not json')).toMatchObject({ ok: false, message: expect.stringMatching(/not JSON/) as unknown as string });
   });
 });

@@ -1,28 +1,36 @@
 import { useEffect, useMemo, useState } from 'react';
-import { crfModelFromJson } from '../../../core/crf';
 import { projectModelSave, type StoredModel } from '../../../db/model-repo';
+import type { CrfModelSummary } from '../../../workers/crf-run';
 import { appDb } from '../../app/db';
+import { modelSummaryRead } from './model-client';
 
 /** The stored model in short, with download, load from a file, and forget. */
 export function ModelFileSection({ projectId, projectName, stored }: { projectId: number; projectName: string; stored: StoredModel | null }) {
   const [message, setMessage] = useState<{ text: string; error: boolean } | null>(null);
   const json = stored?.json ?? null;
-  const info = useMemo(() => {
-    if (json === null) return null;
-    try {
-      const model = crfModelFromJson(json);
-      return { labels: model.labels.length, training: model.training };
-    } catch (error) {
-      return { error: (error as Error).message };
-    }
+  // Read in a worker: decoding a big model here would hold up the page for a long task.
+  const [summary, setSummary] = useState<{ json: string; value: CrfModelSummary } | null>(null);
+  useEffect(() => {
+    if (json === null) return;
+    let live = true;
+    void modelSummaryRead(json).then(
+      (value) => live && setSummary({ json, value }),
+      (error: unknown) => live && setSummary({ json, value: { ok: false, message: (error as Error).message } }),
+    );
+    return () => {
+      live = false;
+    };
   }, [json]);
+  const read = json !== null && summary?.json === json ? summary.value : null;
+  const info = read === null ? null : read.ok ? { labels: read.labels, training: read.training } : { error: read.message };
   const url = useMemo(() => (json === null ? null : URL.createObjectURL(new Blob([json], { type: 'application/json' }))), [json]);
   useEffect(() => () => void (url !== null && URL.revokeObjectURL(url)), [url]);
 
   async function load(file: File) {
     try {
       const text = await file.text();
-      crfModelFromJson(text);
+      const checked = await modelSummaryRead(text);
+      if (!checked.ok) throw new Error(checked.message);
       await projectModelSave(appDb(), projectId, { json: text, origin: 'file', crossValidation: null });
       setMessage({ text: `Loaded ${file.name} and saved it in the project.`, error: false });
     } catch (error) {
@@ -34,8 +42,10 @@ export function ModelFileSection({ projectId, projectName, stored }: { projectId
   return (
     <section aria-labelledby="model-file-title" className="model-section">
       <h3 id="model-file-title">Model file</h3>
-      {stored === null || info === null ? (
+      {stored === null ? (
         <p>No model is saved in this project yet.</p>
+      ) : info === null ? (
+        <p className="model-info">Reading the saved model…</p>
       ) : 'error' in info ? (
         <p className="error">The saved model cannot be read by this version: {info.error}</p>
       ) : (

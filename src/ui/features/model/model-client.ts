@@ -1,6 +1,6 @@
 /** The tagger's worker from the page: one worker per training run, one per pre-labelling run. */
 import * as Comlink from 'comlink';
-import type { CrfProjectTrainOutcome, CrfProjectTrainRequest, CrfRunProgress, CrfTagItem, TrainingSetInfo } from '../../../workers/crf-run';
+import type { CrfModelSummary, CrfProjectTrainOutcome, CrfProjectTrainRequest, CrfRunProgress, CrfTagItem, TrainingSetInfo } from '../../../workers/crf-run';
 import type { CrfWorkerApi } from '../../../workers/crf-train.worker';
 import { workerCrashed, workerJobStart, type WorkerJob } from '../../../workers/worker-job';
 
@@ -55,4 +55,15 @@ export async function modelTaggerOpen(modelJson: string): Promise<ModelTagger> {
     tag: (batch) => Promise.race([link.api.tag(batch), link.crashed]),
     end: link.end,
   };
+}
+
+/** A model file read in a worker (decoding a big model on the page is a long task); the worker ends after. */
+export async function modelSummaryRead(modelJson: string): Promise<CrfModelSummary> {
+  const link = crfWorker();
+  link.crashed.catch(() => undefined);
+  try {
+    return await Promise.race([link.api.summary(modelJson), link.crashed]);
+  } finally {
+    link.end();
+  }
 }
