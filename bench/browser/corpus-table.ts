@@ -6,7 +6,9 @@
  *
  * Alone: `npx tsx bench/browser/corpus-table.ts` (BENCH_UTTERANCES, BENCH_BUILD=1 as for run.ts).
  */
-import { existsSync, writeFileSync, mkdirSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { chromium, type Page } from '@playwright/test';
 import { columnsWrite } from '../../src/core/formats';
@@ -187,9 +189,15 @@ export async function corpusTableBench(options: CorpusTableBenchOptions): Promis
   const file = fileEnsure(options);
   distEnsure(root);
   const server = await previewStart(root, options.port ?? 4197);
-  const browser = await chromium.launch({ executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium', headless: true, args: CHROMIUM_ARGS });
+  // A profile on disk, as a user's browser has: IndexedDB then lives on disk, not in memory.
+  const profile = mkdtempSync(join(tmpdir(), 'slotsmith-table-profile-'));
+  const context = await chromium.launchPersistentContext(profile, {
+    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    headless: true,
+    args: CHROMIUM_ARGS,
+    viewport: { width: 1280, height: 900 },
+  });
   try {
-    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
     // tsx keeps function names with a `__name` helper that page.evaluate's copies of the code lack.
     await context.addInitScript('globalThis.__name = (f) => f;');
     const page = await context.newPage();
@@ -262,8 +270,9 @@ export async function corpusTableBench(options: CorpusTableBenchOptions): Promis
         `the table's worker keeps the filter index in its own heap (${heap.workers} worker(s) alive)`,
     );
   } finally {
-    await browser.close();
+    await context.close();
     server.stop();
+    rmSync(profile, { recursive: true, force: true });
   }
 }
 
