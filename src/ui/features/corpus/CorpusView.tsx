@@ -1,7 +1,7 @@
 import * as Comlink from 'comlink';
 import { useLiveQuery } from 'dexie-react-hooks';
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
-import { projectGet, utteranceCount } from '../../../db';
+import { projectGet } from '../../../db';
 import { corpusIndexSignature } from '../../../db/corpus-index';
 import type { CorpusFilter, CorpusQuery, CorpusSort } from '../../../db/corpus-query';
 import { corpusAnnotators, corpusIdsInSeqOrder } from '../../../db/corpus-rows';
@@ -19,6 +19,8 @@ import './corpus.css';
 interface Answer {
   key: string;
   ids: Int32Array;
+  /** Utterances in the project. */
+  total: number;
 }
 
 const fmt = (n: number) => n.toLocaleString('en');
@@ -38,7 +40,6 @@ export function CorpusView({ projectId }: ProjectViewProps) {
   const state = useMemo(() => corpusStateFromQuery(query), [query]);
   const project = useLiveQuery(() => projectGet(appDb(), projectId), [projectId]);
   const annotators = useLiveQuery(() => corpusAnnotators(appDb(), projectId), [projectId]);
-  const total = useLiveQuery(() => utteranceCount(appDb(), projectId), [projectId]);
   // As text, so an unchanged project does not count as a change.
   const signature = useLiveQuery(async () => JSON.stringify(await corpusIndexSignature(appDb(), projectId)), [projectId]);
   const annotatorsKey = annotators?.join('\n');
@@ -75,11 +76,12 @@ export function CorpusView({ projectId }: ProjectViewProps) {
           Comlink.proxy((done: number, total: number) => live && setProgress({ done, total })),
         );
         if (live) answered(a, dataState);
-        return { key, ids: a.ids };
+        return { key, ids: a.ids, total: a.total };
       }
       // Every utterance in seq order: the index keys alone, no worker, so a big project shows at once.
+      // Their number is the total too: no second walk of the index to count them.
       const ids = await corpusIdsInSeqOrder(appDb(), projectId);
-      return { key, ids: state.sort.desc ? ids.reverse() : ids };
+      return { key, ids: state.sort.desc ? ids.reverse() : ids, total: ids.length };
     };
     run()
       .then((a) => {
@@ -153,7 +155,7 @@ export function CorpusView({ projectId }: ProjectViewProps) {
       />
       <div className="corpus-summary">
         <p role="status" data-testid="corpus-count">
-          {answer === null ? 'Reading the utterances…' : `Showing ${fmt(answer.ids.length)} of ${fmt(total ?? answer.ids.length)} utterances`}
+          {answer === null ? 'Reading the utterances…' : `Showing ${fmt(answer.ids.length)} of ${fmt(answer.total)} utterances`}
           {busy && answer !== null ? ' (updating…)' : ''}
         </p>
         {busy && progress !== null && progress.done < progress.total && (
