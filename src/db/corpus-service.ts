@@ -46,7 +46,7 @@ export class CorpusService {
     this.saveTimer = setTimeout(() => void store.save(index), delay);
   }
 
-  private async indexFresh(projectId: number, onProgress?: (done: number, total: number) => void): Promise<{ index: CorpusIndex; how: CorpusAnswer['index'] }> {
+  private async indexFresh(projectId: number, onProgress?: (done: number, total: number) => void, build = true): Promise<{ index: CorpusIndex; how: CorpusAnswer['index'] } | null> {
     const signature = await corpusIndexSignature(this.db, projectId);
     const current = this.index;
     if (current?.projectId === projectId) {
@@ -67,6 +67,7 @@ export class CorpusService {
         return { index: stored, how: 'stored' };
       }
     }
+    if (!build) return null;
     const index = await corpusIndexBuild(this.db, projectId, onProgress);
     this.index = index;
     this.saveLater(index, 0);
@@ -75,9 +76,24 @@ export class CorpusService {
 
   /** Queries run one at a time, so a burst of filter changes shares one index build. */
   query(projectId: number, query: CorpusQuery, onProgress?: (done: number, total: number) => void): Promise<CorpusAnswer> {
+    return this.queryRun(projectId, query, onProgress, true) as Promise<CorpusAnswer>;
+  }
+
+  /**
+   * The answer only when an index is at hand (in memory or a saved copy, brought up to date from
+   * history if need be); null when one would have to be built. A new page asks this first: loading a
+   * saved copy is quicker than reading every utterance key.
+   */
+  queryIfIndexed(projectId: number, query: CorpusQuery): Promise<CorpusAnswer | null> {
+    return this.queryRun(projectId, query, undefined, false);
+  }
+
+  private queryRun(projectId: number, query: CorpusQuery, onProgress: ((done: number, total: number) => void) | undefined, build: boolean): Promise<CorpusAnswer | null> {
     const run = this.pending.then(async () => {
       const started = performance.now();
-      const { index, how } = await this.indexFresh(projectId, onProgress);
+      const fresh = await this.indexFresh(projectId, onProgress, build);
+      if (fresh === null) return null;
+      const { index, how } = fresh;
       const indexed = performance.now();
       const ids = corpusQueryRun(index, query);
       const column = query.layer === null ? undefined : index.layers.get(query.layer);

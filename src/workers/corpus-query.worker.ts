@@ -14,6 +14,11 @@ const api = {
     // The id list moves to the page without a copy.
     return Comlink.transfer(answer, [answer.ids.buffer]);
   },
+  /** As `query`, but null instead of building an index (see CorpusService.queryIfIndexed). */
+  async queryIfIndexed(projectId: number, query: CorpusQuery): Promise<CorpusAnswer | null> {
+    const answer = await service.queryIfIndexed(projectId, query);
+    return answer === null ? null : Comlink.transfer(answer, [answer.ids.buffer]);
+  },
 };
 
 export type CorpusWorkerApi = typeof api;

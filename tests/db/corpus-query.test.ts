@@ -175,6 +175,20 @@ describe('corpus index and query', () => {
     expect(imported.total).toBe(7);
   });
 
+  it('queryIfIndexed answers from a saved copy (or one in memory) and never builds one', async () => {
+    const db = dbTest();
+    const projectId = await projectSample(db);
+    const store = corpusIndexStoreOpen(new IDBFactory());
+    expect(await new CorpusService(db, store, 0).queryIfIndexed(projectId, query())).toBeNull();
+    const built = await new CorpusService(db, store, 0).query(projectId, query({ slot: 'service' }));
+    expect(built.index).toBe('built');
+    for (let i = 0; i < 100 && (await store.load(projectId)) === undefined; i++) await new Promise((r) => setTimeout(r, 5));
+    const saved = await new CorpusService(db, store, 0).queryIfIndexed(projectId, query({ slot: 'service' }));
+    expect(saved?.index).toBe('stored');
+    expect([...(saved?.ids ?? [])]).toEqual([...built.ids]);
+    expect(saved?.total).toBe(built.total);
+  });
+
   it('a saved copy serves a new service (a reload), brought up to date after edits, not after an import', async () => {
     const db = dbTest();
     const projectId = await projectSample(db);
