@@ -90,6 +90,26 @@ test('the agreement screen shows the command line’s figures for the demo layer
   expect(foreign).toEqual([]);
 });
 
+test('reopened with no layer changed, the screen shows the kept figures at once and says so; "Compute again" computes', async ({ page }) => {
+  test.setTimeout(120_000);
+  await demoOpen(page);
+  const screens = page.getByRole('navigation', { name: 'Screens' });
+  await screens.getByRole('button', { name: 'Agreement' }).click();
+  const cli = agree();
+  const compared = page.getByTestId('agreement-compared');
+  await expect(compared).toHaveAttribute('data-pending', 'false', { timeout: SLOW });
+  await expect(compared).toHaveAttribute('data-kept', 'false');
+  await screens.getByRole('button', { name: 'Overview' }).click();
+  await screens.getByRole('button', { name: 'Agreement' }).click();
+  await expect(compared).toHaveAttribute('data-kept', 'true', { timeout: SLOW });
+  await expect(compared).toContainText('no layer of this project has changed since');
+  await expect(page.getByTestId('figure-kappa-slot')).toHaveText(shown(cli.kappa.slot));
+  await page.getByRole('button', { name: 'Compute again' }).click();
+  await expect(compared).toHaveAttribute('data-kept', 'false', { timeout: SLOW });
+  await expect(compared).toHaveAttribute('data-pending', 'false', { timeout: SLOW });
+  await expect(page.getByTestId('figure-kappa-slot')).toHaveText(shown(cli.kappa.slot));
+});
+
 test('counting drafts too changes nothing on the demo (all done) and says what was counted', async ({ page }) => {
   test.setTimeout(120_000);
   await demoOpen(page);

@@ -122,6 +122,16 @@ export async function layersScan(
   return { utterances, layers };
 }
 
+/**
+ * Which (annotator, status) pairs the project has, as 1s in the shape of `layerStatusCounts`: a
+ * skip-scan of the index, no counting (counting walks every entry: seconds at 100k on disk).
+ */
+export async function layerStatusesPresent(db: SlotsmithDb, projectId: number): Promise<Record<string, Partial<Record<LayerStatus, number>>>> {
+  const present: Record<string, Partial<Record<LayerStatus, number>>> = {};
+  for (const [, annotator, status] of await layerKeysDistinct(db, projectId)) (present[annotator] ??= {})[status] = 1;
+  return present;
+}
+
 /** Chosen layers per annotator and status, from the index alone (no rows read). */
 export async function layerStatusCounts(db: SlotsmithDb, projectId: number): Promise<Record<string, Partial<Record<LayerStatus, number>>>> {
   const index = db.layers.where('[projectId+annotator+status]');

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { LayerRow } from '../../src/db/schema';
-import { layerStatusCounts, layersScan, layerUtteranceSpan } from '../../src/workers/agreement-read';
+import { layerStatusCounts, layerStatusesPresent, layersScan, layerUtteranceSpan } from '../../src/workers/agreement-read';
 import { dbTest, SAMPLE } from '../db/helpers';
 import { agreementSeed } from './agreement-seed';
 
@@ -58,5 +58,6 @@ describe('layersScan', () => {
   it('counts layers per annotator and status from the index', async () => {
     const { db, first } = await twoProjects();
     expect(await layerStatusCounts(db, first.projectId)).toEqual({ 'ann-a': { done: 20, draft: 10 }, 'ann-b': { done: 15 }, gold: { done: 5 } });
+    expect(await layerStatusesPresent(db, first.projectId)).toEqual({ 'ann-a': { done: 1, draft: 1 }, 'ann-b': { done: 1 }, gold: { done: 1 } });
   });
 });

@@ -3,7 +3,8 @@ import { memo } from 'react';
 import { projectGet } from '../../../db/project-repo';
 import { useNav } from '../../../state/nav';
 import type { AgreementProgress, AgreementResult } from '../../../workers/agreement-run';
-import { layerStatusCounts } from '../../../workers/agreement-read';
+import { corpusIndexSignature } from '../../../db/corpus-index';
+import { layerStatusesPresent } from '../../../workers/agreement-read';
 import { appDb } from '../../app/db';
 import type { ProjectViewProps } from '../../app/project-views';
 import { choiceFromQuery, choiceQuery, choiceRequest, choiceStatuses, layerOwners, type AgreementChoice } from './agreement-choice';
@@ -115,14 +116,18 @@ function ChoiceForm({ owners, choice, onChange, onAgain, busy }: { owners: strin
 export function AgreementView({ projectId }: ProjectViewProps) {
   const { query, queryReplace } = useNav();
   const project = useLiveQuery(() => projectGet(appDb(), projectId), [projectId]);
-  const counts = useLiveQuery(() => layerStatusCounts(appDb(), projectId), [projectId]);
+  // Which owners and statuses exist is all the choice needs: no counting (it walks the index).
+  const counts = useLiveQuery(() => layerStatusesPresent(appDb(), projectId), [projectId]);
+  // Changes with every edit, import or schema change: figures computed before it are marked stale.
+  const signature = useLiveQuery(async () => JSON.stringify(await corpusIndexSignature(appDb(), projectId)), [projectId]);
   const owners = counts === undefined ? [] : layerOwners(counts);
   const choice = counts === undefined ? null : choiceFromQuery(query, owners);
   const planned = choice === null || counts === undefined ? null : choiceRequest(projectId, choice, counts);
-  const request = planned !== null && 'request' in planned ? planned.request : null;
-  const countsKey = JSON.stringify(counts ?? null);
-  const { state, early, cancel, again } = useAgreementRun(request, countsKey);
-  const stale = state.kind === 'done' && state.stamp !== countsKey;
+  // Started once the signature is known, so the run is stamped with the data it read.
+  const request = planned !== null && 'request' in planned && signature !== undefined ? planned.request : null;
+  const stamp = signature ?? '';
+  const { state, early, cancel, again } = useAgreementRun(request, stamp);
+  const stale = state.kind === 'done' && signature !== undefined && state.stamp !== stamp;
   return (
     <section aria-labelledby="agreement-title" className="agreement">
       <h2 id="agreement-title">Agreement{project === undefined ? '' : `: ${project.name}`}</h2>
@@ -160,7 +165,7 @@ export function AgreementView({ projectId }: ProjectViewProps) {
           )}
         </div>
       )}
-      {stale && <p role="status">Layers were added or changed their status since these figures were computed; use “Compute again” to bring them up to date.</p>}
+      {stale && <p role="status">Labels or layers have changed since these figures were computed; use “Compute again” to bring them up to date.</p>}
       {state.kind === 'running' && early !== null && <Dashboard result={early} projectId={projectId} />}
       {state.kind === 'done' && state.outcome.ok && <Dashboard result={state.outcome} projectId={projectId} />}
     </section>
