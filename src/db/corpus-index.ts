@@ -12,8 +12,8 @@ import { LAYER_STATUSES, type LayerStatus } from '../core/backup/model';
 import { spansFromTags } from '../core/schemes';
 import type { LabelSchema } from '../core/rules';
 import type { Scheme } from '../core/types';
-import { annotatorIsHuman, labelSchemaOf, layersDisagree, layersDone, layerViolationCount } from './corpus-facts';
-import type { LayerRow, ProjectRow, SlotsmithDb, UtteranceRow } from './schema';
+import { annotatorIsHuman, labelSchemaOf, layersDisagree, layersDone, layerViolationCount, type LayerLike } from './corpus-facts';
+import type { BatchRow, LayerRow, ProjectRow, SlotsmithDb, UtteranceRow } from './schema';
 
 /** One annotator's layer over all utterances (index i = the i-th utterance in seq order). */
 export interface LayerColumn {
@@ -70,11 +70,16 @@ export interface CorpusSignature {
   historyLast: number;
 }
 
+/** One import batch as the signature lists it. */
+export function corpusBatchEntry(batch: Pick<BatchRow, 'id' | 'state' | 'counts'>): [number, string, number, number] {
+  return [batch.id, batch.state, batch.counts.utterances, batch.counts.layers];
+}
+
 export async function corpusIndexSignature(db: SlotsmithDb, projectId: number): Promise<CorpusSignature> {
   return db.transaction('r', [db.projects, db.batches, db.history], async () => {
     const project = await db.projects.get(projectId);
     if (project === undefined) return { project: 'missing', batches: '[]', historyLast: 0 };
-    const batches = (await db.batches.where('projectId').equals(projectId).toArray()).map((b) => [b.id, b.state, b.counts.utterances, b.counts.layers]);
+    const batches = (await db.batches.where('projectId').equals(projectId).toArray()).map(corpusBatchEntry);
     const last = await db.history.where('projectId').equals(projectId).reverse().limit(1).primaryKeys();
     return { project: JSON.stringify([project.updated, project.scheme, project.schema]), batches: JSON.stringify(batches), historyLast: last[0] ?? 0 };
   });
@@ -94,7 +99,7 @@ interface Rules {
   intentCode: (name: string | null | undefined) => number;
 }
 
-function rulesOf(index: CorpusIndex, project: ProjectRow): Rules {
+function rulesOf(index: CorpusIndex, project: Pick<ProjectRow, 'scheme' | 'schema'>): Rules {
   const codes = new Map(index.intents.map((name, i) => [name, i + 1]));
   return {
     scheme: project.scheme,
@@ -112,7 +117,7 @@ function rulesOf(index: CorpusIndex, project: ProjectRow): Rules {
 }
 
 /** Write utterance i's layer facts into the index (after clearing what it held). */
-function utteranceLayersSet(index: CorpusIndex, i: number, layers: readonly LayerRow[], rules: Rules): void {
+function utteranceLayersSet(index: CorpusIndex, i: number, layers: readonly LayerLike[], rules: Rules): void {
   const n = index.intentHint.length;
   for (const column of index.layers.values()) {
     column.status[i] = 0;
@@ -146,6 +151,96 @@ function utteranceLayersSet(index: CorpusIndex, i: number, layers: readonly Laye
 
 function annotatorsSorted(names: Iterable<string>): string[] {
   return [...names].sort((a, b) => Number(!annotatorIsHuman(a)) - Number(!annotatorIsHuman(b)) || (a < b ? -1 : a > b ? 1 : 0));
+}
+
+function resized<T extends Uint8Array | Uint16Array | Int32Array>(array: T, length: number): T {
+  const next = new (array.constructor as new (n: number) => T)(length);
+  next.set(array.subarray(0, Math.min(length, array.length)));
+  return next;
+}
+
+/** Every typed array of the index at `length` entries (`textStart` one more), keeping what they hold. */
+function indexResize(index: CorpusIndex, length: number): void {
+  index.ids = resized(index.ids, length);
+  index.intentHint = resized(index.intentHint, length);
+  index.done = resized(index.done, length);
+  index.humanLayers = resized(index.humanLayers, length);
+  index.disagree = resized(index.disagree, length);
+  index.textStart = resized(index.textStart, length + 1);
+  for (const column of index.layers.values()) {
+    column.status = resized(column.status, length);
+    column.intent = resized(column.intent, length);
+    column.violations = resized(column.violations, length);
+    for (const [slot, present] of column.slots) column.slots.set(slot, resized(present, length));
+  }
+}
+
+/**
+ * An index filled utterance by utterance in seq order, growing as it goes (no count beforehand: on a
+ * disk-backed IndexedDB counting walks every index entry). The build pass fills one from the
+ * database; an import fills one from the chunks it stores (corpus-index-import.ts).
+ */
+export class CorpusIndexFill {
+  private readonly index: CorpusIndex;
+  private readonly rules: Rules;
+  private readonly texts: string[] = [];
+  private offset = 0;
+  private count = 0;
+
+  constructor(projectId: number, project: Pick<ProjectRow, 'scheme' | 'schema'>, capacity = 1024) {
+    const n = Math.max(1, capacity);
+    this.index = {
+      projectId,
+      signature: { project: '', batches: '[]', historyLast: 0 },
+      scheme: project.scheme,
+      ids: new Int32Array(n),
+      intents: [],
+      intentHint: new Uint16Array(n),
+      annotators: [],
+      layers: new Map(),
+      done: new Uint8Array(n),
+      humanLayers: new Uint8Array(n),
+      disagree: new Uint8Array(n),
+      text: '',
+      textStart: new Int32Array(n + 1),
+    };
+    this.rules = rulesOf(this.index, project);
+  }
+
+  /** Utterances added so far. */
+  get size(): number {
+    return this.count;
+  }
+
+  /** Add the next utterance in seq order; returns its position. */
+  utteranceAdd(id: number, text: string, intentHint: string | null | undefined): number {
+    const at = this.count;
+    if (at >= this.index.ids.length) indexResize(this.index, this.index.ids.length * 2);
+    this.index.ids[at] = id;
+    this.index.intentHint[at] = this.rules.intentCode(intentHint);
+    const lower = text.toLowerCase();
+    this.texts.push(lower);
+    this.index.textStart[at] = this.offset;
+    this.offset += lower.length + 1;
+    this.count += 1;
+    return at;
+  }
+
+  /** The layers of the utterance at `position` (every one it has). */
+  layersSet(position: number, layers: readonly LayerLike[]): void {
+    utteranceLayersSet(this.index, position, layers, this.rules);
+  }
+
+  /** The finished index, arrays cut to size; the fill is not to be used afterwards. */
+  finish(signature: CorpusSignature): CorpusIndex {
+    const index = this.index;
+    indexResize(index, this.count);
+    index.textStart[this.count] = this.offset;
+    index.text = this.texts.join('\u0000') + '\u0000';
+    index.annotators = annotatorsSorted(index.layers.keys());
+    index.signature = signature;
+    return index;
+  }
 }
 
 interface Chunk {
@@ -185,62 +280,35 @@ function layersByUtterance(layers: readonly LayerRow[], projectId: number, wante
 
 /**
  * Build the index from the database in chunks of utterances (and their layers) in seq order; the
- * next chunk is read while the current one is worked through. `onProgress` gets utterances done.
+ * next chunk is read while the current one is worked through. `onProgress` gets utterances done and
+ * the total: `expected` (e.g. the ids the table already shows), else a count once it comes in.
  */
-export async function corpusIndexBuild(db: SlotsmithDb, projectId: number, onProgress?: (done: number, total: number) => void): Promise<CorpusIndex> {
+export async function corpusIndexBuild(db: SlotsmithDb, projectId: number, onProgress?: (done: number, total: number) => void, expected = 0): Promise<CorpusIndex> {
   const signature = await corpusIndexSignature(db, projectId);
   const project = await db.projects.get(projectId);
   if (project === undefined) throw new Error(`project ${projectId} does not exist`);
-  // Counted once here: a full build reads every utterance anyway.
-  const n = await db.utterances.where('[projectId+seq]').between([projectId, Dexie.minKey], [projectId, Dexie.maxKey]).count();
-  const index: CorpusIndex = {
-    projectId,
-    signature,
-    scheme: project.scheme,
-    ids: new Int32Array(n),
-    intents: [],
-    intentHint: new Uint16Array(n),
-    annotators: [],
-    layers: new Map(),
-    done: new Uint8Array(n),
-    humanLayers: new Uint8Array(n),
-    disagree: new Uint8Array(n),
-    text: '',
-    textStart: new Int32Array(n + 1),
-  };
-  const rules = rulesOf(index, project);
-  const texts: string[] = [];
-  let offset = 0;
-  let at = 0;
+  const fill = new CorpusIndexFill(projectId, project, Math.max(CHUNK, expected));
+  // Only for the progress note: counted beside the reading (not before it), as the walk takes about a second at 100k on disk.
+  let total = expected;
+  if (onProgress !== undefined && expected === 0) {
+    db.utterances
+      .where('[projectId+seq]')
+      .between([projectId, Dexie.minKey], [projectId, Dexie.maxKey])
+      .count()
+      .then((n) => (total = n))
+      .catch(() => undefined);
+  }
   let pending: Promise<Chunk> | null = chunkRead(db, projectId, null);
   while (pending !== null) {
     const chunk: Chunk = await pending;
     const last = chunk.utterances[chunk.utterances.length - 1];
-    pending = last === undefined || at + chunk.utterances.length >= n ? null : chunkRead(db, projectId, last.seq);
+    pending = last === undefined || chunk.utterances.length < CHUNK ? null : chunkRead(db, projectId, last.seq);
     const position = new Map<number, number>();
-    for (const u of chunk.utterances) {
-      if (at >= n) break;
-      index.ids[at] = u.id;
-      index.intentHint[at] = rules.intentCode(u.intentHint);
-      const text = u.text.toLowerCase();
-      texts.push(text);
-      index.textStart[at] = offset;
-      offset += text.length + 1;
-      position.set(u.id, at);
-      at += 1;
-    }
-    for (const [utteranceId, layers] of layersByUtterance(chunk.layers, projectId, position)) utteranceLayersSet(index, position.get(utteranceId) as number, layers, rules);
-    onProgress?.(at, n);
+    for (const u of chunk.utterances) position.set(u.id, fill.utteranceAdd(u.id, u.text, u.intentHint));
+    for (const [utteranceId, layers] of layersByUtterance(chunk.layers, projectId, position)) fill.layersSet(position.get(utteranceId) as number, layers);
+    onProgress?.(fill.size, Math.max(total, fill.size));
   }
-  // A count taken before a concurrent delete may exceed what the pass met; trim to what was read.
-  if (at < n) {
-    index.ids = index.ids.slice(0, at);
-    index.textStart = index.textStart.slice(0, at + 1);
-  }
-  index.textStart[at] = offset;
-  index.text = texts.join('\u0000') + '\u0000';
-  index.annotators = annotatorsSorted(index.layers.keys());
-  return index;
+  return fill.finish(signature);
 }
 
 const positions = new WeakMap<CorpusIndex, Map<number, number>>();

@@ -16,9 +16,12 @@ import {
   projectSchemaSet,
   RecordMissingError,
   type BatchBeginMeta,
+  type BatchRow,
   type ProjectRow,
   type SlotsmithDb,
 } from '../db';
+import { CorpusIndexImport } from '../db/corpus-index-import';
+import type { CorpusIndexStore } from '../db/corpus-index-store';
 import { PreviewCollector, type ImportPreview } from './import-preview';
 import { fileStreamRead, formatHasLabels, ImportCancelledError, importReaderCreate, type ImportFileOptions } from './import-read';
 
@@ -50,6 +53,8 @@ export interface ImportControl {
   onProgress?: (progress: ImportProgress) => void;
   /** Runs `work` while holding the named exclusive lock (Web Locks in the browser). */
   lock?: <T>(name: string, work: () => Promise<T>) => Promise<T>;
+  /** Where the utterance table's index made during an import into an empty project is saved (none: not made). */
+  indexStore?: CorpusIndexStore;
 }
 
 export interface ImportSummary {
@@ -124,6 +129,17 @@ export async function batchLocked<T>(lock: Lock, begin: () => Promise<number>, w
   return running as Promise<T>;
 }
 
+/** Save the index the import made, when it still fits the project; awaited, so a visit right after finds it. */
+async function indexSave(db: SlotsmithDb, index: CorpusIndexImport | null, batch: BatchRow, store: CorpusIndexStore | undefined): Promise<void> {
+  if (index === null || store === undefined) return;
+  try {
+    const made = await index.finish(db, batch);
+    if (made !== null) await store.save(made);
+  } catch {
+    // Only a cache: the table builds the index itself then.
+  }
+}
+
 export async function importCommit(db: SlotsmithDb, file: Blob, request: CommitRequest, control: ImportControl = {}): Promise<ImportSummary> {
   const project = await projectLoad(db, request.projectId);
   const withLabels = formatHasLabels(request.format);
@@ -134,8 +150,19 @@ export async function importCommit(db: SlotsmithDb, file: Blob, request: CommitR
   if (withLabels && request.annotator !== undefined) meta.annotator = request.annotator.trim();
   const lock = control.lock ?? lockNone;
   const cancelled = control.cancelled ?? (() => false);
+  const labelsAdded = { slots: [...(request.labelsAdd?.slots ?? [])], intents: [...(request.labelsAdd?.intents ?? [])] };
+  const labelsAny = labelsAdded.slots.length + labelsAdded.intents.length > 0;
+  let index: CorpusIndexImport | null = null;
+  const begin = async () => {
+    // Looked at right before the batch exists: the index is made only when the import is all the project holds.
+    if (control.indexStore !== undefined) {
+      index = await CorpusIndexImport.start(db, request.projectId, { schemaFinal: (schema) => (labelsAny ? schemaWithLabels(schema, labelsAdded) : schema) }).catch(() => null);
+    }
+    return batchBegin(db, request.projectId, meta);
+  };
   // The batch lock tells other tabs' start-up cleanup that this batch is alive, for as long as it runs.
-  return batchLocked(lock, () => batchBegin(db, request.projectId, meta), async (batchId) => {
+  return batchLocked(lock, begin, async (batchId) => {
+    const batchRow = index === null ? undefined : await db.batches.get(batchId);
     let pending: Utterance[] = [];
     let read = 0;
     let stored = 0;
@@ -149,7 +176,8 @@ export async function importCommit(db: SlotsmithDb, file: Blob, request: CommitR
         const chunk = pending.slice(from, from + IMPORT_CHUNK_UTTERANCES);
         from += chunk.length;
         // Labelled files attach by id, so a second annotator's file of the same utterances adds layers, not rows.
-        await batchAppend(db, batchId, meta.annotator === undefined ? { utterances: chunk } : { utterances: chunk, attach: 'external-id' });
+        const appended = await batchAppend(db, batchId, meta.annotator === undefined ? { utterances: chunk } : { utterances: chunk, attach: 'external-id' });
+        if (batchRow !== undefined) index?.chunkAdd(batchRow, { utterances: chunk, ...appended });
         stored += chunk.length;
         control.onProgress?.({ phase: 'storing', done: stored, total: Math.max(request.total, stored) });
       }
@@ -171,14 +199,15 @@ export async function importCommit(db: SlotsmithDb, file: Blob, request: CommitR
       }
       await flush(true);
       if (cancelled()) throw new ImportCancelledError();
-      const labelsAdded = { slots: [...(request.labelsAdd?.slots ?? [])], intents: [...(request.labelsAdd?.intents ?? [])] };
-      if (labelsAdded.slots.length + labelsAdded.intents.length > 0) {
+      if (labelsAny) {
         const current = await projectLoad(db, request.projectId);
         await projectSchemaSet(db, request.projectId, schemaWithLabels(current.schema, labelsAdded));
       }
       const done = await batchFinish(db, batchId, { utterances: read });
+      await indexSave(db, index, done, control.indexStore);
       return { batchId, utterances: stored, tokens, layers: done.counts.layers, attached: done.attached ?? 0, annotator: meta.annotator ?? null, labelsAdded };
     } catch (error) {
+      index?.abandon();
       const isCancel = error instanceof ImportCancelledError;
       await batchRollback(db, batchId, { state: isCancel ? 'cancelled' : 'failed', failure: (error as Error).message });
       throw error;

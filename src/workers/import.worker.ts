@@ -1,10 +1,13 @@
 /** The import worker: preview and commit off the page's thread, over the worker's own database connection. */
 import * as Comlink from 'comlink';
 import { dbOpen } from '../db';
+import { corpusIndexStoreOpen } from '../db/corpus-index-store';
 import type { ImportPreview } from './import-preview';
 import { importCommit, importPreview, type CommitRequest, type ImportProgress, type ImportRequest, type ImportSummary } from './import-run';
 
 const db = dbOpen();
+// The table's index made during an import into an empty project goes here, for the table's worker to find.
+const indexStore = corpusIndexStoreOpen(indexedDB);
 const cancelledJobs = new Set<string>();
 
 function control(jobId: string, onProgress: ((p: ImportProgress) => void) | undefined) {
@@ -13,6 +16,7 @@ function control(jobId: string, onProgress: ((p: ImportProgress) => void) | unde
     // Progress calls go back over the message port; not awaited, so reading never waits on the page.
     onProgress: (p: ImportProgress) => void onProgress?.(p),
     lock: <T>(name: string, work: () => Promise<T>): Promise<T> => navigator.locks.request(name, work),
+    indexStore,
   };
 }
 

@@ -5,6 +5,7 @@ import type { ProjectSchema } from '../../../core/backup/model';
 import { CORPUS_SORT_DEFAULT, CORPUS_SORT_KEYS, type CorpusSort, type CorpusSortKey } from '../../../db/corpus-query';
 import { corpusRowsRead, type CorpusRow } from '../../../db/corpus-rows';
 import { appDb } from '../../app/db';
+import { corpusMark } from './corpus-client';
 import { rowIndexAfterKey } from './row-keys';
 import { SlotText } from './SlotText';
 
@@ -188,8 +189,10 @@ export function CorpusTable({ projectId, ids, layer, blind, schema, sort, onSort
     }
     if (missing.length === 0) return;
     for (const id of missing) c.reading.add(id);
+    corpusMark('rows-ask');
     corpusRowsRead(appDb(), missing, { projectId, layer, blind })
       .then((read) => {
+        corpusMark('rows-read');
         for (const r of read) {
           c.rows.set(r.id, r);
           c.stale.delete(r.id);

@@ -10,7 +10,7 @@ import { useNav } from '../../../state/nav';
 import { useSession } from '../../../state/session';
 import type { ProjectViewProps } from '../../app/project-views';
 import { appDb } from '../../app/db';
-import { corpusWorker } from './corpus-client';
+import { corpusMark, corpusWorker } from './corpus-client';
 import { corpusFilterCount, corpusStateFromQuery, corpusStateNeedsIndex, corpusStateToQuery, type CorpusViewState } from './corpus-url';
 import { CorpusFilters } from './CorpusFilters';
 import { CorpusTable } from './CorpusTable';
@@ -42,6 +42,13 @@ export function CorpusView({ projectId }: ProjectViewProps) {
   const annotators = useLiveQuery(() => corpusAnnotators(appDb(), projectId), [projectId]);
   // As text, so an unchanged project does not count as a change.
   const signature = useLiveQuery(async () => JSON.stringify(await corpusIndexSignature(appDb(), projectId)), [projectId]);
+  useEffect(() => corpusMark('mount'), []);
+  useEffect(() => {
+    if (signature !== undefined) corpusMark('signature');
+  }, [signature]);
+  useEffect(() => {
+    if (annotators !== undefined) corpusMark('annotators');
+  }, [annotators]);
   const annotatorsKey = annotators?.join('\n');
   const layer = blind ? profile.id : (state.layer ?? layerDefault(profile?.id ?? null, annotators ?? []));
   const filter: CorpusFilter = useMemo(() => {
@@ -69,6 +76,7 @@ export function CorpusView({ projectId }: ProjectViewProps) {
     const request: CorpusQuery = { layer, filter, sort: state.sort, blind };
     const dataState = `${projectId}|${signature}`;
     const run = async (): Promise<Answer> => {
+      corpusMark('ask');
       if (needsIndex || warm.current === dataState) {
         const a = await corpusWorker().query(
           projectId,
@@ -76,16 +84,20 @@ export function CorpusView({ projectId }: ProjectViewProps) {
           Comlink.proxy((done: number, total: number) => live && setProgress({ done, total })),
         );
         if (live) answered(a, dataState);
+        corpusMark(`answer-${a.index}`);
         return { key, ids: a.ids, total: a.total };
       }
       // A saved index answers quickest; without one, every utterance in seq order from the index keys
       // alone (no build), so a big project shows at once. Their number is the total too.
       const saved = await corpusWorker().queryIfIndexed(projectId, request);
       if (saved !== null) {
+        corpusMark(`answer-${saved.index}`);
         if (live) answered(saved, dataState);
         return { key, ids: saved.ids, total: saved.total };
       }
+      corpusMark('answer-none');
       const ids = await corpusIdsInSeqOrder(appDb(), projectId);
+      corpusMark('answer-keys');
       return { key, ids: state.sort.desc ? ids.reverse() : ids, total: ids.length };
     };
     run()

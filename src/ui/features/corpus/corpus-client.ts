@@ -8,3 +8,8 @@ export function corpusWorker(): Comlink.Remote<CorpusWorkerApi> {
   worker ??= Comlink.wrap<CorpusWorkerApi>(new Worker(new URL('../../../workers/corpus-query.worker.ts', import.meta.url), { type: 'module' }));
   return worker;
 }
+
+/** A Performance API mark of a step towards the first rows (the table bench reads them; `slotsmith-corpus:` names). */
+export function corpusMark(step: string): void {
+  performance.mark(`slotsmith-corpus:${step}`);
+}
