@@ -9,6 +9,7 @@ import {
   crfModelFromJson,
   crfModelToJson,
   type CrfSequence,
+  type CrfShardHelper,
   type CrfTagger,
   crfTagger,
   crfTrain,
@@ -80,7 +81,10 @@ export interface CrfTagItem {
 export const taskTurn = (): Promise<void> => new Promise((resolve) => setTimeout(resolve, 0));
 
 export interface CrfRunner {
+  /** Trains with the runner's helper threads (see CrfHelpersStart), started for this run and ended after. */
   train(request: CrfTrainRequest, onProgress: (p: CrfRunProgress) => void): Promise<CrfTrainOutcome>;
+  /** Trains with the given helper threads, left running. */
+  trainWith(request: CrfTrainRequest, onProgress: (p: CrfRunProgress) => void, helpers: readonly CrfShardHelper[]): Promise<CrfTrainOutcome>;
   /** Stop a running `train` after its current iteration; it rejects with CrfTrainCancelledError. */
   cancel(): void;
   /** Load a model for `tag`; returns its labels. */
@@ -88,40 +92,53 @@ export interface CrfRunner {
   tag(batch: readonly (readonly string[])[]): CrfTagItem[];
 }
 
-export function crfRunnerCreate(turn: () => Promise<void> = taskTurn): CrfRunner {
+/** Helper threads for one training run (cross-validation and final model share them), ended after it. */
+export type CrfHelpersStart = () => { helpers: readonly CrfShardHelper[]; end(): void };
+
+export function crfRunnerCreate(turn: () => Promise<void> = taskTurn, helpersStart: CrfHelpersStart = () => ({ helpers: [], end: () => {} })): CrfRunner {
   let cancelled = false;
   let tagger: CrfTagger | null = null;
-  return {
-    async train(request, onProgress) {
-      cancelled = false;
-      const base = {
-        ...(request.c2 !== undefined && { c2: request.c2 }),
-        ...(request.maxIterations !== undefined && { maxIterations: request.maxIterations }),
-        ...(request.seed !== undefined && { seed: request.seed }),
-        isCancelled: () => cancelled,
-      };
-      const folds = request.folds ?? 0;
-      let crossValidation: CrossValidation | null = null;
-      if (folds >= 2) {
-        crossValidation = await crfCrossValidate(request.sequences, {
-          ...base,
-          folds,
-          onProgress: async (p) => {
-            onProgress({ phase: 'cross-validating', fold: p.fold, folds, iteration: p.iteration, maxIterations: p.maxIterations, loss: p.loss });
-            await turn();
-          },
-        });
-      }
-      const model: CrfModel = await crfTrain(request.sequences, {
+  const trainWith: CrfRunner['trainWith'] = async (request, onProgress, shardHelpers) => {
+    cancelled = false;
+    const base = {
+      ...(request.c2 !== undefined && { c2: request.c2 }),
+      ...(request.maxIterations !== undefined && { maxIterations: request.maxIterations }),
+      ...(request.seed !== undefined && { seed: request.seed }),
+      isCancelled: () => cancelled,
+      shardHelpers,
+    };
+    const folds = request.folds ?? 0;
+    let crossValidation: CrossValidation | null = null;
+    if (folds >= 2) {
+      crossValidation = await crfCrossValidate(request.sequences, {
         ...base,
+        folds,
         onProgress: async (p) => {
-          onProgress({ phase: 'training', fold: 0, folds, iteration: p.iteration, maxIterations: p.maxIterations, loss: p.loss });
+          onProgress({ phase: 'cross-validating', fold: p.fold, folds, iteration: p.iteration, maxIterations: p.maxIterations, loss: p.loss });
           await turn();
         },
       });
-      tagger = crfTagger(model);
-      return { modelJson: crfModelToJson(model), training: model.training, crossValidation };
+    }
+    const model: CrfModel = await crfTrain(request.sequences, {
+      ...base,
+      onProgress: async (p) => {
+        onProgress({ phase: 'training', fold: 0, folds, iteration: p.iteration, maxIterations: p.maxIterations, loss: p.loss });
+        await turn();
+      },
+    });
+    tagger = crfTagger(model);
+    return { modelJson: crfModelToJson(model), training: model.training, crossValidation };
+  };
+  return {
+    async train(request, onProgress) {
+      const threads = helpersStart();
+      try {
+        return await trainWith(request, onProgress, threads.helpers);
+      } finally {
+        threads.end();
+      }
     },
+    trainWith,
     cancel() {
       cancelled = true;
     },

@@ -1,4 +1,5 @@
 import { crfModelToJson, type CrfSequence, crfSequenceFromUtterance, crfTrain } from '../../core/crf';
+import { crfHelperCount, crfWithHelpers } from '../crf-threads';
 import { EXIT_BAD_INPUT, EXIT_OK } from '../exit-codes';
 import { type CliIo, fileWriteAtomic } from '../io';
 import { documentLoad, type LoadOptions } from '../load';
@@ -46,10 +47,16 @@ export async function trainRun(files: readonly string[], options: TrainOptions, 
     return EXIT_BAD_INPUT;
   }
   const started = performance.now();
-  const model = await crfTrain(sequences, {
-    ...(options.iterations !== undefined && { maxIterations: options.iterations }),
-    ...(options.c2 !== undefined && { c2: options.c2 }),
-    ...(options.seed !== undefined && { seed: options.seed }),
+  const tokens = sequences.reduce((n, s) => n + s.words.length, 0);
+  // Helper threads share forward–backward; the model is the same without them (see CRF_SHARDS).
+  const { model, threads } = await crfWithHelpers(crfHelperCount(tokens), async (helpers) => {
+    const trained = await crfTrain(sequences, {
+      ...(options.iterations !== undefined && { maxIterations: options.iterations }),
+      ...(options.c2 !== undefined && { c2: options.c2 }),
+      ...(options.seed !== undefined && { seed: options.seed }),
+      shardHelpers: helpers,
+    });
+    return { model: trained, threads: 1 + helpers.filter((h) => h.answered > 0).length };
   });
   fileWriteAtomic(options.output, crfModelToJson(model));
   const t = model.training;
@@ -57,7 +64,7 @@ export async function trainRun(files: readonly string[], options: TrainOptions, 
   io.err(
     `trained on ${t.utterances} utterance(s), ${t.tokens} token(s): ${model.labels.length} labels, ` +
       `${model.featureLabels.length} state features; ${t.iterations} iteration(s), stopped: ${t.stopped}, ` +
-      `loss ${t.loss.toFixed(3)}, ${seconds} s → ${options.output}\n`,
+      `loss ${t.loss.toFixed(3)}, ${seconds} s on ${threads} thread(s) → ${options.output}\n`,
   );
   return EXIT_OK;
 }

@@ -47,9 +47,9 @@ function dot(a: Float64Array, b: Float64Array): number {
   return s;
 }
 
-/** Minimise `evaluate` (returns f, writes ∇f) from `start`; deterministic: no random choices. */
+/** Minimise `evaluate` (returns f, writes ∇f; may answer later, from other threads) from `start`; deterministic: no random choices. */
 export async function lbfgsMinimise(
-  evaluate: (x: Float64Array, gradient: Float64Array) => number,
+  evaluate: (x: Float64Array, gradient: Float64Array) => number | Promise<number>,
   start: Float64Array,
   options: LbfgsOptions = {},
 ): Promise<LbfgsResult> {
@@ -71,7 +71,7 @@ export async function lbfgsMinimise(
   const alpha = new Float64Array(m);
   const history: number[] = [];
   let evaluations = 1;
-  let f = evaluate(x, g);
+  let f = await evaluate(x, g);
   const result = (stopped: LbfgsStop, iterations: number): LbfgsResult => ({ x, loss: f, iterations, evaluations, stopped });
   if (Math.sqrt(dot(g, g)) / Math.max(1, Math.sqrt(dot(x, x))) < epsilon) return result('converged', 0);
   for (let i = 0; i < n; i++) d[i] = -(g[i] as number);
@@ -91,7 +91,7 @@ export async function lbfgsMinimise(
     let accepted = false;
     for (let trial = 0; trial < maxLinesearch; trial++) {
       for (let i = 0; i < n; i++) x[i] = (xPrev[i] as number) + step * (d[i] as number);
-      f = evaluate(x, g);
+      f = await evaluate(x, g);
       evaluations++;
       if (f <= fPrev + ARMIJO_C1 * step * slope) {
         accepted = true;

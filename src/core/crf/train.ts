@@ -5,6 +5,8 @@ import { labelsFromTags } from './labels';
 import { lbfgsMinimise, type LbfgsStop } from './lbfgs';
 import type { CrfModel } from './model';
 import { CrfObjective } from './objective';
+import { CrfThreadedObjective } from './objective-threads';
+import type { CrfShardHelper } from './shard';
 
 export interface CrfTrainOptions {
   /** L2 coefficient in c2·‖w‖² (CRFsuite's default is 1). */
@@ -19,6 +21,11 @@ export interface CrfTrainOptions {
   memory?: number;
   onProgress?: (progress: CrfTrainProgress) => void | Promise<void>;
   isCancelled?: () => boolean;
+  /**
+   * Other threads to share forward–backward with (the caller starts and ends them). The weights do
+   * not depend on them: the objective is split into CRF_SHARDS shards whatever the thread count.
+   */
+  shardHelpers?: readonly CrfShardHelper[];
 }
 
 export interface CrfTrainProgress {
@@ -62,7 +69,9 @@ export async function crfTrain(sequences: readonly CrfSequence[], options: CrfTr
   const features = stateFeaturesCollect(data, encoder.size, labels.length);
   const structure = { labelCount: labels.length, featureStarts: features.starts, featureLabels: features.labels };
   const objective = new CrfObjective(data, structure, c2);
-  const result = await lbfgsMinimise((x, g) => objective.evaluate(x, g), new Float64Array(objective.size), {
+  const threaded = new CrfThreadedObjective(objective, options.shardHelpers ?? []);
+  await threaded.start();
+  const result = await lbfgsMinimise((x, g) => threaded.evaluate(x, g), new Float64Array(objective.size), {
     maxIterations,
     ...(options.epsilon !== undefined && { epsilon: options.epsilon }),
     ...(options.delta !== undefined && { delta: options.delta }),
