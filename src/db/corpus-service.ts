@@ -31,6 +31,8 @@ export class CorpusService {
   private pending: Promise<unknown> = Promise.resolve();
 
   private saveTimer: ReturnType<typeof setTimeout> | undefined;
+  /** The project state (id and signature) for which the saved copy was missing or could not be brought up to date. */
+  private storedUseless: string | null = null;
 
   constructor(
     private readonly db: SlotsmithDb,
@@ -58,7 +60,9 @@ export class CorpusService {
     }
     // Drop the old index first: two 100k-utterance indexes need not live at once.
     this.index = null;
-    const stored = await this.store?.load(projectId);
+    // A saved copy found of no use for this very state is not loaded again (warm, then the first question).
+    const state = `${projectId}|${JSON.stringify(signature)}`;
+    const stored = this.storedUseless === state ? undefined : await this.store?.load(projectId);
     if (stored !== undefined) {
       const same = corpusSignatureSame(stored.signature, signature);
       if (same || (await corpusIndexUpdate(this.db, stored, signature))) {
@@ -67,11 +71,22 @@ export class CorpusService {
         return { index: stored, how: 'stored' };
       }
     }
+    this.storedUseless = state;
     if (!build) return null;
     const index = await corpusIndexBuild(this.db, projectId, onProgress);
     this.index = index;
     this.saveLater(index, 0);
     return { index, how: 'built' };
+  }
+
+  /**
+   * Bring a saved copy into memory ahead of the first query (a page asks this while it still reads
+   * its own first facts); never builds. Says how the index came to hand (null: none saved).
+   */
+  warm(projectId: number): Promise<CorpusAnswer['index'] | null> {
+    const run = this.pending.then(async () => (await this.indexFresh(projectId, undefined, false))?.how ?? null);
+    this.pending = run.catch(() => undefined);
+    return run;
   }
 
   /** Queries run one at a time, so a burst of filter changes shares one index build. */

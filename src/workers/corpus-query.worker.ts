@@ -14,6 +14,10 @@ const api = {
     // The id list moves to the page without a copy.
     return Comlink.transfer(answer, [answer.ids.buffer]);
   },
+  /** Load the project's saved index ahead of the first question (see CorpusService.warm). */
+  warm(projectId: number): Promise<CorpusAnswer['index'] | null> {
+    return service.warm(projectId);
+  },
   /** As `query`, but null instead of building an index (see CorpusService.queryIfIndexed). */
   async queryIfIndexed(projectId: number, query: CorpusQuery): Promise<CorpusAnswer | null> {
     const answer = await service.queryIfIndexed(projectId, query);

@@ -89,6 +89,42 @@ describe('the table index saved by an import', () => {
     });
   }
 
+  it('a new page’s worker loads it ahead of the first question (warm), and warm never builds one', async () => {
+    const db = dbTest();
+    const store = corpusIndexStoreOpen(new IDBFactory());
+    const projectId = await projectMake(db);
+    const bare = await projectMake(db);
+    await importCommit(db, new Blob([annA]), commitRequest(projectId, 'columns', { annotator: 'ann-a' }), { indexStore: store });
+    await importCommit(db, new Blob([annA]), commitRequest(bare, 'columns', { annotator: 'ann-a' }));
+    const service = new CorpusService(db, store, 0);
+    expect(await service.warm(projectId)).toBe('stored');
+    const answer = await service.queryIfIndexed(projectId, query({ violations: true }));
+    expect(answer?.index).toBe('reused');
+    expect([...(answer?.ids ?? [])]).toEqual([...corpusQueryRun(await corpusIndexBuild(db, projectId), query({ violations: true }))]);
+    expect(await service.warm(bare)).toBeNull();
+    expect(await service.queryIfIndexed(bare, query())).toBeNull();
+    expect(await store.load(bare)).toBeUndefined();
+  });
+
+  it('a copy that cannot serve the project as it is now is loaded once, not again by the first question', async () => {
+    const db = dbTest();
+    const store = corpusIndexStoreOpen(new IDBFactory());
+    const projectId = await projectMake(db);
+    await importCommit(db, new Blob([annA]), commitRequest(projectId, 'columns', { annotator: 'ann-a' }), { indexStore: store });
+    // A second annotator's file attaches layers: an import, so the copy can only be rebuilt.
+    await importCommit(db, new Blob([annB]), commitRequest(projectId, 'columns', { annotator: 'ann-b' }), { indexStore: store });
+    let loads = 0;
+    const counting: CorpusIndexStore = { ...store, load: (id) => ((loads += 1), store.load(id)) };
+    const service = new CorpusService(db, counting, 0);
+    expect(await service.warm(projectId)).toBeNull();
+    expect(await service.queryIfIndexed(projectId, query())).toBeNull();
+    expect(loads).toBe(1);
+    const built = await service.query(projectId, query({ annotator: 'ann-b' }));
+    expect(built.index).toBe('built');
+    expect([...built.ids]).toEqual([...corpusQueryRun(await corpusIndexBuild(db, projectId), query({ annotator: 'ann-b' }))]);
+    expect(loads).toBe(1);
+  });
+
   it('is not taken as current after a label edit (brought up to date), a slot rename or another import (rebuilt)', async () => {
     const db = dbTest();
     const store = corpusIndexStoreOpen(new IDBFactory());

@@ -43,6 +43,17 @@ export function CorpusView({ projectId }: ProjectViewProps) {
   // As text, so an unchanged project does not count as a change.
   const signature = useLiveQuery(async () => JSON.stringify(await corpusIndexSignature(appDb(), projectId)), [projectId]);
   useEffect(() => corpusMark('mount'), []);
+  // The worker starts and loads the saved index while this page reads its own first facts.
+  useEffect(() => {
+    corpusWorker()
+      .warm(projectId)
+      .then((how) => corpusMark(`warm-${how ?? 'none'}`))
+      .catch(() => undefined);
+    void appDb()
+      .open()
+      .then(() => corpusMark('db-open'))
+      .catch(() => undefined);
+  }, [projectId]);
   useEffect(() => {
     if (signature !== undefined) corpusMark('signature');
   }, [signature]);
