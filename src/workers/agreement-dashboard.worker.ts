@@ -1,6 +1,7 @@
 /** The agreement and overview computations off the page's thread, over the worker's own database connection. */
 import * as Comlink from 'comlink';
 import { agreementCacheOpen, type AgreementCache } from '../db/agreement-cache';
+import { layerCopyStoreOpen, type LayerCopyStore } from '../db/layer-copy-store';
 import { dbOpen, type SlotsmithDb } from '../db/schema';
 import type { AgreementBootstrapApi } from './agreement-bootstrap.worker';
 import { bootstrapParallel, type BootstrapHelper } from './agreement-parallel';
@@ -11,6 +12,7 @@ import { workerCrashed } from './worker-job';
 
 let db: SlotsmithDb | undefined;
 let cache: AgreementCache<AgreementResult> | undefined;
+let copies: LayerCopyStore | undefined;
 
 /** One helper per further core, up to three: the page's own thread stays free, as it waits on us. */
 function helpersStart(): BootstrapHelper[] {
@@ -38,16 +40,19 @@ const api = {
   agreement(request: AgreementRequest, onProgress: (p: AgreementProgress) => void, onPoint?: (early: AgreementResult) => void, fresh = false): Promise<AgreementOutcome> {
     db ??= dbOpen();
     cache ??= agreementCacheOpen<AgreementResult>(indexedDB);
+    copies ??= layerCopyStoreOpen(indexedDB);
     return agreementRun(db, request, (p) => void onProgress(p), {
       ...(onPoint !== undefined && { onPoint: (early: AgreementResult) => void onPoint(early) }),
       bootstrap: bootstrapParallel(helpersStart),
       cache,
+      copies,
       fresh,
     });
   },
   overview(request: OverviewRequest, onProgress: (p: LayerScanProgress) => void): Promise<OverviewResult> {
     db ??= dbOpen();
-    return overviewRun(db, request, (p) => void onProgress(p));
+    copies ??= layerCopyStoreOpen(indexedDB);
+    return overviewRun(db, request, (p) => void onProgress(p), copies);
   },
 };
 

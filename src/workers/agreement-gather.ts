@@ -4,8 +4,10 @@
  * CoNLL-2000 reading as the command line's `agree`. Utterances pair up by database id; both layers of
  * one utterance share its tokens, so only the token count (one per tag) is handed over, never text.
  */
-import { AlignLayerGatherer, layerDataAlign, type AlignLayerData, type AlignResult } from '../core/agreement';
-import type { LayerStatus } from '../core/backup/model';
+import { AlignLayerGatherer, layerDataAlign, MISSING, type AlignLayerData, type AlignResult } from '../core/agreement';
+import { LabelInterner, RawPrefix, RawTagTable } from '../core/agreement/labels';
+import { LAYER_STATUSES, type LayerStatus } from '../core/backup/model';
+import type { LayerCopy } from '../db/layer-copy';
 import type { Token, Utterance } from '../core/types';
 import type { LayerRow } from '../db/schema';
 
@@ -101,4 +103,93 @@ export function updatedByPosition(ids: readonly (string | null)[], layers: reado
     });
     return times;
   });
+}
+
+/**
+ * One annotator's chosen layers straight from its layer copy (layer-copy.ts): what `LayerGathering`
+ * gives for the same rows, without a row object or tag string per layer. Tag names are read once
+ * each (the copy's codes map to the core's raw tag table), then the CoNLL-2000 reading runs on ints.
+ */
+export function gatheredFromCopy(copy: LayerCopy, statuses: readonly LayerStatus[]): GatheredLayer {
+  const wanted = new Uint8Array(LAYER_STATUSES.length + 1);
+  for (const s of statuses) wanted[LAYER_STATUSES.indexOf(s) + 1] = 1;
+  const slots = new LabelInterner(1);
+  const raw = new RawTagTable(slots);
+  // Filled on a tag's first use, so slots are numbered in the order the row-by-row gatherer meets them.
+  const prefixOf = new Int8Array(copy.tagNames.length).fill(-1);
+  const slotOf = new Int32Array(copy.tagNames.length);
+  const intentNames = new LabelInterner(0);
+  const intentOf = new Int32Array(copy.intents.length + 1).fill(MISSING);
+  const n = copy.utteranceIds.length;
+  let count = 0;
+  let tokens = 0;
+  for (let k = 0; k < n; k++) {
+    if (wanted[copy.status[k] as number] !== 1) continue;
+    count++;
+    tokens += (copy.tagStart[k + 1] as number) - (copy.tagStart[k] as number);
+  }
+  const ids = new Array<string | null>(count);
+  const utteranceIds = new Int32Array(count);
+  const updated = new Float64Array(count);
+  const tokenStart = new Int32Array(count + 1);
+  const tagCounts = new Int32Array(count);
+  const tags = new Int32Array(tokens);
+  const intents = new Int32Array(count);
+  const counted: Partial<Record<LayerStatus, number>> = {};
+  let u = 0;
+  let at = 0;
+  for (let k = 0; k < n; k++) {
+    const status = copy.status[k] as number;
+    if (wanted[status] !== 1) continue;
+    const s = LAYER_STATUSES[status - 1] as LayerStatus;
+    counted[s] = (counted[s] ?? 0) + 1;
+    const id = copy.utteranceIds[k] as number;
+    ids[u] = String(id);
+    utteranceIds[u] = id;
+    updated[u] = copy.updated[k] as number;
+    const intent = copy.intent[k] as number;
+    if (intent !== 0 && intentOf[intent] === MISSING) intentOf[intent] = intentNames.code(copy.intents[intent - 1] as string);
+    intents[u] = intentOf[intent] as number;
+    const from = copy.tagStart[k] as number;
+    const to = copy.tagStart[k + 1] as number;
+    // As AlignLayerGatherer reads tags: a stray I-X (or E-X) opens a span, E-X and S-X close one.
+    let open = 0;
+    for (let t = from; t < to; t++) {
+      const c = copy.tags[t] as number;
+      if (prefixOf[c] === -1) {
+        const code = raw.code(copy.tagNames[c] as string);
+        prefixOf[c] = raw.prefix[code] ?? RawPrefix.O;
+        slotOf[c] = raw.slot[code] ?? 0;
+      }
+      const prefix = prefixOf[c] as number;
+      const slot = slotOf[c] as number;
+      if (prefix === RawPrefix.O) {
+        open = 0;
+        tags[at++] = 0;
+        continue;
+      }
+      const inside = (prefix === RawPrefix.I || prefix === RawPrefix.E) && open === slot;
+      tags[at++] = inside ? 2 * slot : 2 * slot - 1;
+      open = prefix === RawPrefix.E || prefix === RawPrefix.S ? 0 : slot;
+    }
+    tagCounts[u] = to - from;
+    tokenStart[++u] = at;
+  }
+  const data: AlignLayerData = {
+    name: copy.annotator,
+    count,
+    ids,
+    lines: new Float64Array(count).fill(Number.NaN),
+    texts: new Array<string>(count).fill(''),
+    tokenStart,
+    // Both layers of an utterance share its tokens: equal (zero) offsets pass the token check.
+    ranges: new Int32Array(2 * tokens),
+    tokenLines: new Float64Array(tokens).fill(Number.NaN),
+    tagCounts,
+    tags,
+    slotNames: [...slots.names],
+    intents,
+    intentNames: [...intentNames.names],
+  };
+  return { annotator: copy.annotator, data, utteranceIds, updated, statuses: counted };
 }

@@ -7,7 +7,12 @@ import { ANNOTATORS_RESERVED, LAYER_STATUSES, type LayerStatus } from '../core/b
 import { spansFromTags } from '../core/schemes';
 import type { LayerRow, SlotsmithDb } from '../db/schema';
 import { utteranceCount } from '../db/utterance-repo';
+import { corpusIndexSignature } from '../db/corpus-index';
+import { layerCopiesVisit } from '../db/layer-copy';
+import type { LayerCopyStore } from '../db/layer-copy-store';
+import { layerKeysDistinct } from '../db/layer-keys';
 import { layersScan, type LayerScanProgress } from './agreement-read';
+import { layerCopiesFor } from './layer-copies';
 
 export interface OverviewRequest {
   projectId: number;
@@ -138,8 +143,24 @@ export class OverviewTally {
   }
 }
 
-export async function overviewRun(db: SlotsmithDb, request: OverviewRequest, onProgress: (p: LayerScanProgress) => void = () => {}): Promise<OverviewResult> {
+/** `copies`: read the layers through their kept copies (see layer-copies.ts) instead of every row. */
+export async function overviewRun(
+  db: SlotsmithDb,
+  request: OverviewRequest,
+  onProgress: (p: LayerScanProgress) => void = () => {},
+  copies?: LayerCopyStore,
+  onCopiesSaved?: (saved: Promise<void>) => void,
+): Promise<OverviewResult> {
   const tally = new OverviewTally(request);
-  await layersScan(db, { projectId: request.projectId, annotators: null, statuses: null }, (row) => tally.rowAdd(row), onProgress);
-  return tally.done(await utteranceCount(db, request.projectId));
+  const { projectId } = request;
+  if (copies === undefined) {
+    await layersScan(db, { projectId, annotators: null, statuses: null }, (row) => tally.rowAdd(row), onProgress);
+  } else {
+    const signature = await corpusIndexSignature(db, projectId);
+    const annotators = [...new Set((await layerKeysDistinct(db, projectId)).map(([, annotator]) => annotator))];
+    const had = await layerCopiesFor(db, copies, projectId, annotators, signature, onProgress);
+    onCopiesSaved?.(had.saved);
+    layerCopiesVisit(had.copies, null, (row) => tally.rowAdd(row));
+  }
+  return tally.done(await utteranceCount(db, projectId));
 }

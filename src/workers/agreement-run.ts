@@ -19,8 +19,11 @@ import type { LayerStatus } from '../core/backup/model';
 import type { AgreementCache } from '../db/agreement-cache';
 import { corpusIndexSignature } from '../db/corpus-index';
 import type { SlotsmithDb } from '../db/schema';
-import { gatheredAlign, LayerGathering, updatedByPosition } from './agreement-gather';
+import { gatheredAlign, gatheredFromCopy, LayerGathering, updatedByPosition, type GatheredLayer } from './agreement-gather';
 import { layersExist, layersScan } from './agreement-read';
+import { layerCopiesFor } from './layer-copies';
+import { layerCopyHas } from '../db/layer-copy';
+import type { LayerCopyStore } from '../db/layer-copy-store';
 import { agreementOverTime, type TimePoint } from './agreement-time';
 
 export interface AgreementRequest {
@@ -128,6 +131,10 @@ export interface AgreementRunOptions {
   cache?: AgreementCache<AgreementResult>;
   /** Compute even when the cache holds the figures ("Compute again"); the new result replaces them. */
   fresh?: boolean;
+  /** Compact copies of the layers kept between runs (see layer-copies.ts); without, every layer is read each run. */
+  copies?: LayerCopyStore;
+  /** Called with the promise of storing new layer copies (tests wait for it). */
+  onCopiesSaved?: (saved: Promise<void>) => void;
 }
 
 /** One cache entry per choice that changes the figures. */
@@ -155,7 +162,7 @@ export async function agreementRun(
   const { projectId, annotators, statuses } = request;
   const { cache } = options;
   // Taken before reading: a change during the run leaves a signature the next visit will not match.
-  const signature = cache === undefined ? null : await corpusIndexSignature(db, projectId);
+  const signature = cache === undefined && options.copies === undefined ? null : await corpusIndexSignature(db, projectId);
   if (cache !== undefined && signature !== null && options.fresh !== true) {
     const hit = await cache.load(projectId, requestKey(request), signature);
     if (hit !== undefined) {
@@ -164,14 +171,26 @@ export async function agreementRun(
     }
   }
   step('cache');
-  // Existence only: counting walks every index entry (seconds at 100k on disk); the gatherers grow as they go.
-  const present = await Promise.all(annotators.map((a) => layersExist(db, projectId, a, statuses)));
-  const empty = annotators.filter((_, i) => !present[i]);
-  if (empty.length > 0) return { ok: false, message: `No layers of ${empty.join(', ')} with status ${statuses.join(' or ')}: nothing to compare.` };
-  step('count');
-  const gathering = new LayerGathering(annotators);
-  await layersScan(db, { projectId, annotators, statuses }, (row) => gathering.rowAdd(row), (p) => onProgress({ phase: 'reading', ...p }), undefined, steps);
-  const layers = gathering.done();
+  let gathered: GatheredLayer[];
+  const reading = (p: { done: number; total: number }) => onProgress({ phase: 'reading', ...p });
+  if (options.copies !== undefined && signature !== null) {
+    const { copies, saved } = await layerCopiesFor(db, options.copies, projectId, annotators, signature, reading, steps);
+    options.onCopiesSaved?.(saved);
+    const empty = annotators.filter((_, i) => !layerCopyHas(copies[i] as (typeof copies)[number], statuses));
+    if (empty.length > 0) return { ok: false, message: `No layers of ${empty.join(', ')} with status ${statuses.join(' or ')}: nothing to compare.` };
+    step('copies');
+    gathered = copies.map((c) => gatheredFromCopy(c, statuses));
+  } else {
+    // Existence only: counting walks every index entry (seconds at 100k on disk); the gatherers grow as they go.
+    const present = await Promise.all(annotators.map((a) => layersExist(db, projectId, a, statuses)));
+    const empty = annotators.filter((_, i) => !present[i]);
+    if (empty.length > 0) return { ok: false, message: `No layers of ${empty.join(', ')} with status ${statuses.join(' or ')}: nothing to compare.` };
+    step('count');
+    const gathering = new LayerGathering(annotators);
+    await layersScan(db, { projectId, annotators, statuses }, (row) => gathering.rowAdd(row), reading, undefined, steps);
+    gathered = gathering.done();
+  }
+  const layers = gathered;
   step('gather');
   const readAt = now();
   onProgress({ phase: 'computing', done: 0, total: 1 });

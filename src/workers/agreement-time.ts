@@ -17,6 +17,31 @@ export interface TimePoint {
 export const TIME_POINTS_MAX = 24;
 
 /**
+ * Positions of `done` by time, ties by position. Keys (time − earliest) · 2^b + position sort as
+ * plain numbers in a typed array (a comparator sort of 100k takes ~10× longer) while they stay
+ * exact integers (below 2^53); wider spans of time fall back to the comparator.
+ */
+export function completionOrder(done: readonly number[]): Int32Array {
+  const n = done.length;
+  let low = Infinity;
+  let high = -Infinity;
+  for (const t of done) {
+    low = Math.min(low, t);
+    high = Math.max(high, t);
+  }
+  const shift = 2 ** Math.ceil(Math.log2(Math.max(2, n)));
+  if (n === 0 || !Number.isInteger(low) || !Number.isInteger(high) || (high - low + 1) * shift > Number.MAX_SAFE_INTEGER) {
+    return Int32Array.from(Array.from(done.keys()).sort((x, y) => (done[x] ?? 0) - (done[y] ?? 0) || x - y));
+  }
+  const keys = new Float64Array(n);
+  for (let i = 0; i < n; i++) keys[i] = ((done[i] as number) - low) * shift + i;
+  keys.sort();
+  const order = new Int32Array(n);
+  for (let i = 0; i < n; i++) order[i] = (keys[i] as number) % shift;
+  return order;
+}
+
+/**
  * Cumulative slot kappa of layers `a` and `b` at up to `maxPoints` moments. Points split the
  * completion order into near-equal steps, never between two utterances completed at the same time.
  */
@@ -33,7 +58,7 @@ export function agreementOverTime(corpus: AlignedCorpus, a: number, b: number, u
     shared.push(u);
     done.push(Math.max(timesA[u] ?? 0, timesB[u] ?? 0));
   }
-  const order = Array.from(shared.keys()).sort((x, y) => (done[x] ?? 0) - (done[y] ?? 0) || x - y);
+  const order = completionOrder(done);
   const ks = corpus.slots.length;
   const rowA = new Float64Array(ks);
   const colB = new Float64Array(ks);
