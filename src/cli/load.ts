@@ -15,7 +15,7 @@ export type Loaded = { ok: true; format: string; document: Document } | { ok: fa
 
 const CHUNK_BYTES = 1 << 20;
 
-type ReaderMade = { ok: true; format: string; reader: DocumentReader } | { ok: false; message: string };
+export type ReaderMade = { ok: true; format: string; reader: DocumentReader } | { ok: false; message: string };
 
 /** Reading choices a command makes for itself (not flags the user gives). */
 export interface ReadChoices {
@@ -23,14 +23,8 @@ export interface ReadChoices {
   tokenRanges?: boolean;
 }
 
-function readerCreate(path: string, head: Uint8Array, options: LoadOptions, onUtterance?: (u: Utterance) => void, choices: ReadChoices = {}): ReaderMade {
-  let format: string = options.from ?? '';
-  let scheme = options.scheme;
-  if (format === 'iob1' || format === 'iob2' || format === 'bioes') {
-    scheme = format;
-    format = 'columns';
-  }
-  if (format === '') format = formatDetect(path, new TextDecoder('utf-8').decode(head));
+export function readerCreate(path: string, head: Uint8Array, options: LoadOptions, onUtterance?: (u: Utterance) => void, choices: ReadChoices = {}): ReaderMade {
+  const { format, scheme } = formatChoose(path, head, options);
   const common = { ...(scheme !== undefined && { scheme }), ...(onUtterance !== undefined && { onUtterance }) };
   switch (format) {
     case 'columns':
@@ -52,11 +46,23 @@ function readerCreate(path: string, head: Uint8Array, options: LoadOptions, onUt
   }
 }
 
+/** The format to read `path` as: the one asked for (an IOB flavour is columns with that scheme), else detected. */
+export function formatChoose(path: string, head: Uint8Array, options: LoadOptions): { format: string; scheme: Scheme | undefined } {
+  let format: string = options.from ?? '';
+  let scheme = options.scheme;
+  if (format === 'iob1' || format === 'iob2' || format === 'bioes') {
+    scheme = format;
+    format = 'columns';
+  }
+  if (format === '') format = formatDetect(path, new TextDecoder('utf-8').decode(head));
+  return { format, scheme };
+}
+
 /**
- * Read a file in the format asked for, or the one its name and first bytes suggest. The file is
- * streamed in 1 MiB chunks; with `onUtterance` each utterance goes to the caller and is not kept.
+ * Stream a file through the reader `made` gives for its first bytes, in 1 MiB chunks. The decoder
+ * copies what it keeps between pushes, so one buffer serves every chunk.
  */
-export function documentLoad(path: string, options: LoadOptions, onUtterance?: (u: Utterance) => void, choices: ReadChoices = {}): Loaded {
+export function fileStream(path: string, made: (head: Uint8Array) => ReaderMade): Loaded {
   let fd: number;
   try {
     fd = openSync(path, 'r');
@@ -65,20 +71,27 @@ export function documentLoad(path: string, options: LoadOptions, onUtterance?: (
     return { ok: false, message: `cannot read file (${code}): ${(error as Error).message}` };
   }
   try {
-    // The decoder copies what it keeps between pushes, so one buffer serves every chunk.
     const buffer = new Uint8Array(CHUNK_BYTES);
     let length = readSync(fd, buffer, 0, CHUNK_BYTES, null);
-    const made = readerCreate(path, buffer.subarray(0, length), options, onUtterance, choices);
-    if (!made.ok) return made;
+    const reader = made(buffer.subarray(0, length));
+    if (!reader.ok) return reader;
     while (length > 0) {
-      made.reader.push(buffer.subarray(0, length));
+      reader.reader.push(buffer.subarray(0, length));
       length = readSync(fd, buffer, 0, CHUNK_BYTES, null);
     }
-    return { ok: true, format: made.format, document: made.reader.end() };
+    return { ok: true, format: reader.format, document: reader.reader.end() };
   } catch (error) {
     const code = (error as NodeJS.ErrnoException).code ?? 'error';
     return { ok: false, message: `cannot read file (${code}): ${(error as Error).message}` };
   } finally {
     closeSync(fd);
   }
+}
+
+/**
+ * Read a file in the format asked for, or the one its name and first bytes suggest. The file is
+ * streamed in 1 MiB chunks; with `onUtterance` each utterance goes to the caller and is not kept.
+ */
+export function documentLoad(path: string, options: LoadOptions, onUtterance?: (u: Utterance) => void, choices: ReadChoices = {}): Loaded {
+  return fileStream(path, (head) => readerCreate(path, head, options, onUtterance, choices));
 }

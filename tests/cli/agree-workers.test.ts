@@ -1,5 +1,5 @@
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -51,6 +51,48 @@ describe('slotsmith agree on worker threads', () => {
       expect(here?.stderr).toContain(args[1]);
       expect(threads).toEqual(here);
     }
+  });
+});
+
+describe('slotsmith agree on worker threads, files big enough to share', () => {
+  /** The sample pair `copies` times over with distinct ids (~6 MB each): the main thread may take a tail of a helper's file. */
+  function bigPair(work: string, copies: number, change: (text: string) => string = (t) => t): string[] {
+    return ['ann-a.iob2', 'ann-b.iob2'].map((name, i) => {
+      const one = readFileSync(corpus(name), 'utf8').trimEnd();
+      const text = Array.from({ length: copies }, (_, c) => `${one.replace(/^# id = (.*)$/gmu, `# id = $1-${String(c)}`)}\n\n`).join('');
+      const path = join(work, name);
+      writeFileSync(path, i === 1 ? change(text) : text);
+      return path;
+    });
+  }
+
+  it('prints the same figures, and the same errors, whatever the number of threads', () => {
+    const work = mkdtempSync(join(tmpdir(), 'slotsmith-agree-big-'));
+    const files = bigPair(work, 22);
+    const outputs = [0, 1, 2, 3].map((workers) => agreeWith(workers, ['--json', '--bootstrap', '0', files[1] ?? '', files[0] ?? '']));
+    expect(outputs[0]?.code).toBe(0);
+    expect(JSON.parse(outputs[0]?.stdout ?? '').utterances).toBeGreaterThan(22 * 100);
+    for (const output of outputs) expect(output).toEqual(outputs[0]);
+
+    const bad = join(work, 'bad');
+    mkdirSync(bad);
+    // An odd tag half way through B, and a token in its last utterance that is not in its `# text`.
+    const broken = bigPair(bad, 22, (text) => {
+      const last = text.lastIndexOf('\tO\n');
+      const middle = text.indexOf('\tO\n', text.length >> 1);
+      return `${text.slice(0, middle)}\tQ-day\n${text.slice(middle + 3, last)}zz\tO\n${text.slice(last + 3)}`;
+    });
+    const failures = [0, 1, 2].map((workers) => agreeWith(workers, ['--json', '--bootstrap', '0', broken[1] ?? '', broken[0] ?? '']));
+    expect(failures[0]?.code).toBe(2);
+    expect(failures[0]?.stderr).toMatch(/:\d+: error: tag "Q-day"/u);
+    expect(failures[0]?.stderr).toMatch(/:\d+: error: token\/text mismatch: token "\w*zz"/u);
+    for (const output of failures) expect(output).toEqual(failures[0]);
+    // The last utterance of B loses its last token: a token count mismatch found in alignment.
+    const mismatch = bigPair(join(work, 'bad'), 22, (text) => `${text.trimEnd().slice(0, text.trimEnd().lastIndexOf('\n'))}\n\n`);
+    const mismatches = [0, 1, 2].map((workers) => agreeWith(workers, ['--json', '--bootstrap', '0', mismatch[1] ?? '', mismatch[0] ?? '']));
+    expect(mismatches[0]?.code).toBe(2);
+    expect(mismatches[0]?.stderr).toMatch(/ann-b\.iob2 \(line \d+\) has \d+ tokens, .*ann-a\.iob2 \(line \d+\) has \d+/u);
+    for (const output of mismatches) expect(output).toEqual(mismatches[0]);
   });
 });
 

@@ -1,41 +1,32 @@
 import { availableParallelism } from 'node:os';
 import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
-import { AlignLayerGatherer, bootstrapRange, type AlignLayerData, type BootstrapJob, type ResampleValues } from '../../core/agreement';
-import type { ReadError } from '../../core/types';
-import { documentLoad, type LoadOptions } from '../load';
+import { bootstrapRange, type BootstrapJob, type ResampleValues } from '../../core/agreement';
+import type { LayerLoaded } from '../layer-load';
+import type { LoadOptions } from '../load';
+import { layerLoad } from '../layer-load';
+import { agreeJobAssemble, agreeJobBuffers, agreeJobRun, agreeJobsPlan, agreeTailsTake, type AgreeJob, type AgreeJobResult } from './agree-jobs';
 
 /**
- * Helper threads for `agree`: each parses files into alignment data, then runs a range of
- * bootstrap resamples, while the main thread does its own share of both. Both are pure core functions; the bootstrap ranges join into exactly the
- * one-thread values (see `bootstrapRange`), so the figures do not depend on the thread count.
+ * Helper threads for `agree`: each parses files into alignment data (the main thread may take the
+ * tail of one, see `agree-jobs`), then runs a range of bootstrap resamples, while the main thread
+ * does its own share of both. The parts join into exactly the one-thread layers and the bootstrap
+ * ranges into exactly the one-thread values (see `bootstrapRange`), so the figures do not depend
+ * on the thread count.
  * The worker runs this same module file (the CLI bundle), recognised by its `workerData` marker.
  */
 const WORKER_MARK = 'slotsmith-agree-worker';
 
-export type GatherReply =
-  | { ok: true; layer: AlignLayerData; errors: ReadError[] }
-  | { ok: false; message: string };
+export type GatherReply = LayerLoaded;
 
 type Request =
-  | { kind: 'gather'; file: string; options: LoadOptions }
+  | { kind: 'gather'; job: AgreeJob; words: SharedArrayBuffer }
   | { kind: 'bootstrap'; job: BootstrapJob; from: number; to: number };
-
-function gather(file: string, options: LoadOptions): GatherReply {
-  const gatherer = new AlignLayerGatherer(file);
-  const loaded = documentLoad(file, options, (utterance) => gatherer.utteranceAdd(utterance));
-  if (!loaded.ok) return { ok: false, message: loaded.message };
-  return { ok: true, layer: gatherer.done(), errors: loaded.document.errors };
-}
-
-function layerBuffers(layer: AlignLayerData): ArrayBuffer[] {
-  return [layer.lines, layer.tokenStart, layer.ranges, layer.tokenLines, layer.tagCounts, layer.tags, layer.intents].map((a) => a.buffer as ArrayBuffer);
-}
 
 if (!isMainThread && (workerData as { mark?: string } | null)?.mark === WORKER_MARK) {
   parentPort?.on('message', (request: Request) => {
     if (request.kind === 'gather') {
-      const reply = gather(request.file, request.options);
-      parentPort?.postMessage(reply, reply.ok ? layerBuffers(reply.layer) : []);
+      const result = agreeJobRun(request.job, new Int32Array(request.words));
+      parentPort?.postMessage(result, agreeJobBuffers(result));
     } else {
       const { job, from, to } = request;
       const values = bootstrapRange(job.rows, job.layout, job.seed, from, to);
@@ -90,18 +81,30 @@ export class AgreeWorkers {
   /**
    * Parse the files in parallel, replies in file order: with n helpers, file i goes to helper
    * i mod (n + 1), or is parsed here when that is n. The helpers' requests are posted before this
-   * thread starts on its own files, and its share needs no copying between threads.
+   * thread starts on its own files; then it takes tails of the helpers' files while they are
+   * worth it (see `agreeTailsTake`).
    */
-  async gather(files: readonly string[], options: LoadOptions): Promise<GatherReply[]> {
+  async gather(files: readonly string[], options: LoadOptions, sizes: readonly number[]): Promise<GatherReply[]> {
     const lanes = this.workers.length + 1;
-    const replies: GatherReply[] = new Array<GatherReply>(files.length);
+    const jobs = agreeJobsPlan(files, sizes, options);
+    const shared = new SharedArrayBuffer(4 * Math.max(1, files.length));
+    const words = new Int32Array(shared);
+    const results: AgreeJobResult[] = new Array<AgreeJobResult>(files.length);
+    const helperFiles: number[] = [];
     const helping = this.workers.map(async (worker, w) => {
       for (let i = w; i < files.length; i += lanes) {
-        replies[i] = await this.ask<GatherReply>(worker, { kind: 'gather', file: files[i] ?? '', options });
+        results[i] = await this.ask<AgreeJobResult>(worker, { kind: 'gather', job: jobs[i] as AgreeJob, words: shared });
       }
     });
-    for (let i = this.workers.length; i < files.length; i += lanes) replies[i] = gather(files[i] ?? '', options);
+    this.workers.forEach((_, w) => {
+      for (let i = w; i < files.length; i += lanes) helperFiles.push(i);
+    });
+    helperFiles.sort((a, b) => a - b);
+    const replies: GatherReply[] = new Array<GatherReply>(files.length);
+    for (let i = this.workers.length; i < files.length; i += lanes) replies[i] = layerLoad(files[i] ?? '', options, sizes[i] ?? 0);
+    const tails = agreeTailsTake(jobs, helperFiles, words);
     await Promise.all(helping);
+    for (const i of helperFiles) replies[i] = agreeJobAssemble(jobs[i] as AgreeJob, results[i] as AgreeJobResult, tails, options);
     return replies;
   }
 

@@ -13,7 +13,8 @@ import {
 import type { ReadError } from '../../core/types';
 import { EXIT_BAD_INPUT, EXIT_OK } from '../exit-codes';
 import type { CliIo } from '../io';
-import { documentLoad, type LoadOptions } from '../load';
+import { layerLoad } from '../layer-load';
+import type { LoadOptions } from '../load';
 import { agreeJson } from './agree-json';
 import { agreeText } from './agree-text';
 import { agreeWorkerCount, AgreeWorkers } from './agree-workers';
@@ -26,18 +27,18 @@ export interface AgreeOptions extends LoadOptions {
 
 type FileRead = { ok: true; errors: ReadError[] } | { ok: false; message: string };
 
-/** Each file streamed straight into the builder: no Utterance objects outlive their parse. */
-function filesReadHere(files: readonly string[], options: LoadOptions, builder: AlignBuilder): FileRead[] {
-  return files.map((file): FileRead => {
-    builder.layerBegin(file);
-    const loaded = documentLoad(file, options, (utterance) => builder.utteranceAdd(utterance));
-    builder.layerEnd();
-    return loaded.ok ? { ok: true, errors: loaded.document.errors } : loaded;
+/** Each file streamed straight into alignment data (see `layerLoad`). */
+function filesReadHere(files: readonly string[], options: LoadOptions, builder: AlignBuilder, sizes: readonly number[]): FileRead[] {
+  return files.map((file, i): FileRead => {
+    const loaded = layerLoad(file, options, sizes[i] ?? 0);
+    if (!loaded.ok) return loaded;
+    builder.layerAdd(loaded.layer);
+    return { ok: true, errors: loaded.errors };
   });
 }
 
-async function filesReadOnWorkers(files: readonly string[], options: LoadOptions, builder: AlignBuilder, workers: AgreeWorkers): Promise<FileRead[]> {
-  const replies = await workers.gather(files, options);
+async function filesReadOnWorkers(files: readonly string[], options: LoadOptions, builder: AlignBuilder, workers: AgreeWorkers, sizes: readonly number[]): Promise<FileRead[]> {
+  const replies = await workers.gather(files, options, sizes);
   return replies.map((reply): FileRead => {
     if (!reply.ok) return reply;
     builder.layerAdd(reply.layer);
@@ -52,17 +53,15 @@ async function reportCompute(corpus: AlignedCorpus, options: AgreementOptions, w
   return agreementIntervalsAdd(pending, resampleValuesJoin(await workers.bootstrap(pending.job)));
 }
 
-/** Total bytes of the files that exist (a missing one is reported when read). */
-function inputSize(files: readonly string[]): number {
-  let bytes = 0;
-  for (const file of files) {
+/** Each file's size in bytes, 0 when it cannot be read (that is reported when it is read). */
+function fileSizes(files: readonly string[]): number[] {
+  return files.map((file) => {
     try {
-      bytes += statSync(file).size;
+      return statSync(file).size;
     } catch {
-      // Reported with its line when the file is read.
+      return 0;
     }
-  }
-  return bytes;
+  });
 }
 
 /**
@@ -76,11 +75,12 @@ export async function agreeRun(files: readonly string[], options: AgreeOptions, 
     ...(options.scheme !== undefined && { scheme: options.scheme }),
     ...(options.column !== undefined && { column: options.column }),
   };
-  const count = agreeWorkerCount(inputSize(files));
+  const sizes = fileSizes(files);
+  const count = agreeWorkerCount(sizes.reduce((a, b) => a + b, 0));
   const workers = count > 0 ? new AgreeWorkers(count) : null;
   try {
     const builder = alignBuilder();
-    const reads = workers === null ? filesReadHere(files, load, builder) : await filesReadOnWorkers(files, load, builder, workers);
+    const reads = workers === null ? filesReadHere(files, load, builder, sizes) : await filesReadOnWorkers(files, load, builder, workers, sizes);
     let bad = false;
     reads.forEach((read, i) => {
       const file = files[i] ?? '';

@@ -23,7 +23,36 @@ function placeAt(layer: AlignLayerData, k: number): AlignErrorPlace {
   return { layer: layer.name, line: layerLine(layer, k) };
 }
 
+/**
+ * The common case without a map: every layer has the first layer's ids in the same order, and the
+ * first layer's ids rise strictly (code-unit order), so they are distinct. `rowsById` would then
+ * give every layer the identity row and report nothing; null when the case does not hold.
+ */
+function rowsInSameOrder(layers: readonly AlignLayerData[]): Rows | null {
+  const first = layers[0];
+  if (first === undefined) return null;
+  const ids = first.ids;
+  const count = first.count;
+  let previous = '';
+  for (let k = 0; k < count; k++) {
+    const id = ids[k] ?? null;
+    if (id === null || (k > 0 && !(previous < id))) return null;
+    previous = id;
+  }
+  for (let l = 1; l < layers.length; l++) {
+    const other = layers[l] as AlignLayerData;
+    if (other.count !== count) return null;
+    const otherIds = other.ids;
+    for (let k = 0; k < count; k++) if (otherIds[k] !== ids[k]) return null;
+  }
+  const identity = new Int32Array(count);
+  for (let k = 0; k < count; k++) identity[k] = k;
+  return { count, rows: layers.map(() => identity.slice()), ids: ids.slice(0, count) };
+}
+
 function rowsById(layers: readonly AlignLayerData[], errors: AlignErrorList): Rows {
+  const same = rowsInSameOrder(layers);
+  if (same !== null) return same;
   const positions = new Map<string, number>();
   const ids: string[] = [];
   const lists: number[][] = layers.map(() => []);

@@ -1,8 +1,9 @@
 import { KIND_I, KIND_S } from '../rules/tagKinds';
 import { SCHEME_PREFIXES, type ParsedTag } from '../schemes';
-import type { Document, ReadError, Scheme, Token, Utterance } from '../types';
+import type { Document, ReadError, Scheme, Utterance } from '../types';
 import { commentBounds, lineIsComment, type CommentBounds } from './columns-comment';
 import { KEY_ID, KEY_INTENT, KEY_TEXT, RESERVED_PREFIXES, reservedCommentKey } from './columns-reserved';
+import { UtteranceTarget, type ColumnsTarget } from './columns-target';
 import {
   documentRead,
   errorsSort,
@@ -57,6 +58,7 @@ function tagInvalidMessage(tag: string): string {
  */
 class ColumnsParser implements LineParser {
   private readonly utterances: Utterance[] = [];
+  private readonly target: ColumnsTarget;
   private readonly errors: ReadError[] = [];
   private readonly tagTable = new TagTable();
   private readonly evidence = new SchemeEvidence();
@@ -64,14 +66,14 @@ class ColumnsParser implements LineParser {
   private readonly ranges: boolean;
   /** Tags of a higher kind are rejected: malformed ones always, E-/S- when the scheme is IOB1 or IOB2. */
   private readonly kindMax: number;
-  private readonly emit: (utterance: Utterance) => void;
 
   // The utterance being read; `blockLine` is 0 between utterances.
   private blockLine = 0;
   private blockBad = false;
-  private tokens: Token[] = [];
-  private tags: string[] = [];
-  private tokenLines: number[] = [];
+  /** Token lines of the utterance so far, tagged or not. */
+  private tokenLineCount = 0;
+  /** The last line number seen. */
+  private lineLast = 0;
   /** Where the next token may start: in `# text`, or in the text being joined. */
   private offset = 0;
   /** Token strings to join when there is no `# text`. */
@@ -88,11 +90,12 @@ class ColumnsParser implements LineParser {
   private meta: Record<string, string> | null = null;
   private readonly bounds: CommentBounds = { keyStart: 0, keyEnd: 0, valueStart: 0 };
 
-  constructor(options: ColumnsReadOptions) {
+  /** `target`: where tokens and utterances go; by default Utterance objects for `onUtterance` or the document. */
+  constructor(options: ColumnsReadOptions, target?: ColumnsTarget) {
     this.scheme = options.scheme;
     this.ranges = options.tokenRanges ?? true;
     this.kindMax = this.scheme === 'iob1' || this.scheme === 'iob2' ? KIND_I : KIND_S;
-    this.emit = utteranceSink(options, this.utterances);
+    this.target = target ?? new UtteranceTarget(utteranceSink(options, this.utterances));
   }
 
   /**
@@ -153,7 +156,7 @@ class ColumnsParser implements LineParser {
       const end = newline > start && text.charCodeAt(newline - 1) === CR ? newline - 1 : newline;
       line++;
       // `# id = `, `# intent = ` and `# text = ` before the first token line need no further parsing.
-      const key = code === HASH && this.tokenLines.length === 0 ? reservedCommentKey(text, start) : -1;
+      const key = code === HASH && this.tokenLineCount === 0 ? reservedCommentKey(text, start) : -1;
       if (key < 0) {
         this.lineAdd(text, start, end, line);
       } else {
@@ -163,10 +166,12 @@ class ColumnsParser implements LineParser {
       start = newline + 1;
     }
     cursor.line = line;
+    this.lineLast = line;
     return start;
   }
 
   lineAdd(text: string, start: number, end: number, line: number): void {
+    this.lineLast = line;
     let first = start;
     let code = 0;
     while (first < end && ((code = text.charCodeAt(first)) === SPACE || code === TAB)) first++;
@@ -199,7 +204,7 @@ class ColumnsParser implements LineParser {
     while (lastStart > firstEnd && (code = text.charCodeAt(lastStart - 1)) !== SPACE && code !== TAB) lastStart--;
     if (lastStart <= firstEnd) {
       if (this.blockLine === 0) this.blockStart(line);
-      this.tokenLines.push(line);
+      this.tokenLineCount++;
       this.tagMissing(text, first, last, line);
       return;
     }
@@ -213,23 +218,22 @@ class ColumnsParser implements LineParser {
    */
   private tokenAdd(text: string, first: number, firstEnd: number, entry: TagEntry, line: number, matchedAt: number): void {
     if (this.blockLine === 0) this.blockStart(line);
-    this.tokenLines.push(line);
-    this.tags.push(entry.tag);
+    this.tokenLineCount++;
     if (entry.kind > this.kindMax) this.tagReject(entry, line);
     else if (this.scheme === undefined) this.evidence.tagAdd(entry.parsed as ParsedTag);
     const length = firstEnd - first;
     if (this.textSource === undefined) {
-      if (this.ranges) {
-        this.tokenTexts.push(text.slice(first, firstEnd));
-        this.tokens.push({ start: this.offset, end: this.offset + length });
-      }
+      const at = this.offset;
+      if (this.ranges) this.tokenTexts.push(text.slice(first, firstEnd));
       this.offset += length + 1;
+      this.target.tokenAdd(entry, line, this.ranges ? at : -1, at + length);
     } else if (matchedAt >= 0) {
       const at = matchedAt - this.textBase;
-      if (this.ranges) this.tokens.push({ start: at, end: at + length });
       this.offset = at + length;
+      this.target.tokenAdd(entry, line, this.ranges ? at : -1, at + length);
     } else {
-      this.tokenLocate(text, first, firstEnd, line);
+      const at = this.tokenLocate(text, first, firstEnd, line);
+      this.target.tokenAdd(entry, line, this.ranges ? at : -1, at + length);
     }
   }
 
@@ -246,21 +250,26 @@ class ColumnsParser implements LineParser {
   }
 
   lineUndecodable(line: number): void {
+    this.lineLast = line;
     if (this.blockLine === 0) this.blockStart(line);
     this.errorAdd(line, `${UNDECODABLE_MESSAGE}; its utterance is skipped`);
   }
 
   end(): Document {
     this.blockEnd();
+    this.target.linesRead?.(this.lineLast);
     // A detected scheme admits every prefix seen (E-/S- make it BIOES), so only a given one is checked per line.
     const scheme = this.scheme ?? this.evidence.scheme();
     return { scheme, utterances: this.utterances, errors: errorsSort(this.errors) };
   }
 
-  /** Find a token that did not match right after the previous one (and some spaces) further on in `# text`. */
-  private tokenLocate(line: string, first: number, firstEnd: number, lineNumber: number): void {
+  /**
+   * Find a token that did not match right after the previous one (and some spaces) further on in
+   * `# text`: where it starts, or -1 (then the utterance has an error).
+   */
+  private tokenLocate(line: string, first: number, firstEnd: number, lineNumber: number): number {
     const target = this.text;
-    if (target === undefined || this.textLost) return;
+    if (target === undefined || this.textLost) return -1;
     const token = line.slice(first, firstEnd);
     const at = target.indexOf(token, this.offset);
     if (at < 0) {
@@ -270,14 +279,14 @@ class ColumnsParser implements LineParser {
         `token/text mismatch: token ${JSON.stringify(token)} is not in the "# text" comment (line ${this.textLine}) ` +
           `after character ${this.offset}; the text must contain the tokens in order`,
       );
-      return;
+      return -1;
     }
-    if (this.ranges) this.tokens.push({ start: at, end: at + token.length });
     this.offset = at + token.length;
+    return at;
   }
 
   private commentAdd(text: string, start: number, end: number, line: number): void {
-    if (this.tokenLines.length > 0) {
+    if (this.tokenLineCount > 0) {
       this.errorAdd(line, 'comment line inside an utterance: comments must come before its first token line (is a blank line missing?)');
       return;
     }
@@ -326,17 +335,17 @@ class ColumnsParser implements LineParser {
 
   private blockEnd(): void {
     if (this.blockLine === 0) return;
-    if (this.tokenLines.length === 0) {
+    if (this.tokenLineCount === 0) {
       if (this.text !== undefined && !this.blockBad) {
         this.errors.push({ line: this.textLine, message: '"# text" comment with no token lines after it' });
       }
-    } else if (!this.blockBad) {
-      this.utteranceAdd();
+    } else if (this.blockBad) {
+      this.target.utteranceDrop();
+    } else {
+      this.target.utteranceKeep({ text: this.text ?? this.tokenTexts.join(' '), id: this.id, intent: this.intent, meta: this.meta, line: this.blockLine });
     }
     this.blockLine = 0;
-    this.tokens = [];
-    this.tags = [];
-    this.tokenLines = [];
+    this.tokenLineCount = 0;
     this.offset = 0;
     this.tokenTexts.length = 0;
     this.textLost = false;
@@ -346,25 +355,20 @@ class ColumnsParser implements LineParser {
     this.textSource = undefined;
     this.meta = null;
   }
-
-  private utteranceAdd(): void {
-    const utterance: Utterance = {
-      text: this.text ?? this.tokenTexts.join(' '),
-      tokens: this.tokens,
-      tags: this.tags,
-      meta: this.meta ?? {},
-      line: this.blockLine,
-      tokenLines: this.tokenLines,
-    };
-    if (this.id !== undefined) utterance.id = this.id;
-    if (this.intent !== undefined) utterance.intent = this.intent;
-    this.emit(utterance);
-  }
 }
 
 /** Incremental column-file reader (see `DocumentReader`). */
 export function columnsReader(options: ColumnsReadOptions = {}): DocumentReader {
   return readerFromLineParser(new ColumnsParser(options));
+}
+
+/**
+ * A column-file reader that hands tokens and utterances to `target` instead of building Utterance
+ * objects (`onUtterance` is not called); the document it ends with has the scheme and the errors,
+ * exactly those of `columnsReader`, and no utterances.
+ */
+export function columnsReaderTo(target: ColumnsTarget, options: Omit<ColumnsReadOptions, 'onUtterance'> = {}): DocumentReader {
+  return readerFromLineParser(new ColumnsParser(options, target));
 }
 
 /** Read an IOB/BIOES column file; never throws on bad input (errors come back in the document). */

@@ -1,5 +1,6 @@
 export * from './columns-comment';
 export * from './columns-read';
+export * from './columns-target';
 export * from './columns-write';
 export * from './delimited-escape';
 export * from './delimited-read';
