@@ -53,8 +53,8 @@ export class Lattice {
   ): number {
     const L = this.labelCount;
     this.reserve(tokens);
-    const { expState, alpha, beta, scale, marginals, row, transposed } = this;
-    let logZ = 0;
+    const { expState } = this;
+    let shift = 0;
     for (let t = 0; t < tokens; t++) {
       const base = t * L;
       let max = state[base] as number;
@@ -62,10 +62,36 @@ export class Lattice {
         const v = state[base + j] as number;
         if (v > max) max = v;
       }
-      logZ += max;
+      shift += max;
       for (let j = 0; j < L; j++) expState[base + j] = Math.exp((state[base + j] as number) - max);
     }
-    if (tokens > 1) for (let i = 0; i < L; i++) for (let j = 0; j < L; j++) transposed[j * L + i] = expTrans[i * L + j] as number;
+    this.transitionsSet(expTrans);
+    const pairs = pairOut === null ? null : this.pairs;
+    if (pairs !== null) pairs.fill(0);
+    const logZ = shift + this.runScaled(tokens, expTrans, start, pairs);
+    if (pairOut !== null && pairs !== null) {
+      for (let k = 0; k < L * L; k++) pairOut[pairOffset + k] = (pairOut[pairOffset + k] as number) + (pairs[k] as number) * (expTrans[k] as number);
+    }
+    return logZ;
+  }
+
+  /** Keep expTrans transposed for `runScaled`: once per set of transition weights, not per sequence. */
+  transitionsSet(expTrans: Float64Array): void {
+    const L = this.labelCount;
+    const transposed = this.transposed;
+    for (let i = 0; i < L; i++) for (let j = 0; j < L; j++) transposed[j * L + i] = expTrans[i * L + j] as number;
+  }
+
+  /**
+   * Forward–backward on `expState` as the caller filled it (T × L, exp of the state scores less a
+   * shift the caller adds to log Z), with `transitionsSet(expTrans)` done. Fills `marginals`; when
+   * `pairSums` is given, adds Σ_t α̂_t(i) Ŝ_{t+1}(j) β̂_{t+1}(j) into it: times E(i, j), the expected
+   * transition counts, a product a caller may take once over many sequences. Returns log Z less the shift.
+   */
+  runScaled(tokens: number, expTrans: Float64Array, start: Float64Array | null, pairSums: Float64Array | null): number {
+    const L = this.labelCount;
+    const { expState, alpha, beta, scale, marginals, row, transposed } = this;
+    let logZ = 0;
     // Forward.
     let sum = 0;
     for (let j = 0; j < L; j++) {
@@ -100,8 +126,7 @@ export class Lattice {
       for (let j = 0; j < L; j++) alpha[base + j] = (alpha[base + j] as number) * c;
     }
     // Backward, scaled by the same factors; the pair expectations share its loop over (i, j).
-    const pairs = pairOut === null ? null : this.pairs;
-    if (pairs !== null) pairs.fill(0);
+    const pairs = pairSums;
     const last = (tokens - 1) * L;
     c = scale[tokens - 1] as number;
     for (let i = 0; i < L; i++) beta[last + i] = c;
@@ -154,9 +179,6 @@ export class Lattice {
       logZ -= Math.log(s);
       const inverse = 1 / s;
       for (let i = 0; i < L; i++) marginals[base + i] = (alpha[base + i] as number) * (beta[base + i] as number) * inverse;
-    }
-    if (pairOut !== null && pairs !== null) {
-      for (let k = 0; k < L * L; k++) pairOut[pairOffset + k] = (pairOut[pairOffset + k] as number) + (pairs[k] as number) * (expTrans[k] as number);
     }
     return logZ;
   }

@@ -107,6 +107,11 @@ export class CrfShardObjective {
   /** Units × labels: each unit's summed state weights, then the marginals summed over its tokens. */
   private readonly unitScores: Float64Array;
   private readonly unitExpected: Float64Array;
+  /** Per unit, its row's maximum, and exp(row − maximum): a token's exp scores are then a product of five rows, with no exp per token. */
+  private readonly unitMax: Float64Array;
+  private readonly unitExp: Float64Array;
+  /** Σ over tokens of α̂_t(i) Ŝ_{t+1}(j) β̂_{t+1}(j), L × L (see Lattice.runScaled). */
+  private readonly pairSums: Float64Array;
 
   constructor(private readonly shard: CrfShardData) {
     const L = shard.labelCount;
@@ -123,29 +128,106 @@ export class CrfShardObjective {
     const units = shard.unitStarts.length - 1;
     this.unitScores = new Float64Array(units * L);
     this.unitExpected = new Float64Array(units * L);
+    this.unitMax = new Float64Array(units);
+    this.unitExp = new Float64Array(units * L);
+    this.pairSums = new Float64Array(L * L);
   }
 
   /** Σ log Z into the return value, the expected counts into `expected` (overwritten, `size` long). */
   evaluate(weights: Float64Array, expected: Float64Array): number {
-    const { shard, lattice, state, expTrans, stateCount, unitScores, unitExpected } = this;
+    const { shard, lattice, state, expTrans, stateCount, unitScores, unitExpected, unitMax, unitExp, pairSums } = this;
     const { featureStarts, featureLabels, tokenStarts, tokenUnits } = shard;
     const L = shard.labelCount;
     for (let c = 0; c < L * L; c++) expTrans[c] = Math.exp(weights[stateCount + c] as number);
+    lattice.transitionsSet(expTrans);
     unitScoresFill(featureStarts, featureLabels, weights, L, shard.unitStarts, shard.unitAttrs, unitScores);
+    unitRowsExp(unitScores, L, unitMax, unitExp);
     unitExpected.fill(0);
+    pairSums.fill(0);
     expected.fill(0);
     let logZSum = 0;
     for (let u = 0; u + 1 < tokenStarts.length; u++) {
       const first = tokenStarts[u] as number;
       const tokens = (tokenStarts[u + 1] as number) - first;
       if (tokens === 0) continue;
-      tokenScoresSum(tokenUnits, unitScores, L, first, tokens, state);
-      logZSum += lattice.run(tokens, state, expTrans, null, expected, stateCount);
+      let shift = tokenExpFill(tokenUnits, unitMax, unitExp, L, first, tokens, lattice.expState);
+      if (Number.isNaN(shift)) {
+        // Some token's product underflowed (weights far apart): the plain way, exp per token of the summed scores.
+        tokenScoresSum(tokenUnits, unitScores, L, first, tokens, state);
+        shift = stateExpFill(state, L, tokens, lattice.expState);
+      }
+      logZSum += shift + lattice.runScaled(tokens, expTrans, null, pairSums);
       marginalsToUnits(tokenUnits, lattice.marginals, L, first, tokens, unitExpected);
     }
+    for (let c = 0; c < L * L; c++) expected[stateCount + c] = (pairSums[c] as number) * (expTrans[c] as number);
     unitRowsToFeatures(featureStarts, featureLabels, L, shard.unitStarts, shard.unitAttrs, unitExpected, expected);
     return logZSum;
   }
+}
+
+/** Each unit row's maximum, and exp(row − maximum) (every row then holds a 1, the rest in (0, 1]). */
+function unitRowsExp(unitScores: Float64Array, labelCount: number, unitMax: Float64Array, unitExp: Float64Array): void {
+  for (let u = 0; u < unitMax.length; u++) {
+    const row = u * labelCount;
+    let max = unitScores[row] as number;
+    for (let j = 1; j < labelCount; j++) {
+      const v = unitScores[row + j] as number;
+      if (v > max) max = v;
+    }
+    unitMax[u] = max;
+    for (let j = 0; j < labelCount; j++) unitExp[row + j] = Math.exp((unitScores[row + j] as number) - max);
+  }
+}
+
+/**
+ * A sequence's exp state scores (T × L) as products of its tokens' five unit rows, into `out`;
+ * returns the shift (Σ of the rows' maxima) log Z must add back, or NaN when some token's row
+ * fell below UNDERFLOW_GUARD everywhere, where forward–backward's scaling could lose it.
+ */
+function tokenExpFill(tokenUnits: Int32Array, unitMax: Float64Array, unitExp: Float64Array, labelCount: number, firstToken: number, tokenCount: number, out: Float64Array): number {
+  let shift = 0;
+  for (let t = 0; t < tokenCount; t++) {
+    const at = (firstToken + t) * CRF_SPAN;
+    const row = t * labelCount;
+    const a0 = tokenUnits[at] as number;
+    const a1 = tokenUnits[at + 1] as number;
+    const a2 = tokenUnits[at + 2] as number;
+    const a3 = tokenUnits[at + 3] as number;
+    const a4 = tokenUnits[at + 4] as number;
+    shift += (unitMax[a0] as number) + (unitMax[a1] as number) + (unitMax[a2] as number) + (unitMax[a3] as number) + (unitMax[a4] as number);
+    const u0 = a0 * labelCount;
+    const u1 = a1 * labelCount;
+    const u2 = a2 * labelCount;
+    const u3 = a3 * labelCount;
+    const u4 = a4 * labelCount;
+    let max = 0;
+    for (let j = 0; j < labelCount; j++) {
+      const v = (unitExp[u0 + j] as number) * (unitExp[u1 + j] as number) * (unitExp[u2 + j] as number) * (unitExp[u3 + j] as number) * (unitExp[u4 + j] as number);
+      out[row + j] = v;
+      if (v > max) max = v;
+    }
+    if (max < UNDERFLOW_GUARD) return Number.NaN;
+  }
+  return shift;
+}
+
+/** Far above the smallest normal double (~2.2e-308), so α's per-column scaling keeps full precision. */
+const UNDERFLOW_GUARD = 1e-200;
+
+/** exp(state − row maximum) into `out`; returns Σ of the maxima. */
+function stateExpFill(state: Float64Array, labelCount: number, tokenCount: number, out: Float64Array): number {
+  let shift = 0;
+  for (let t = 0; t < tokenCount; t++) {
+    const base = t * labelCount;
+    let max = state[base] as number;
+    for (let j = 1; j < labelCount; j++) {
+      const v = state[base + j] as number;
+      if (v > max) max = v;
+    }
+    shift += max;
+    for (let j = 0; j < labelCount; j++) out[base + j] = Math.exp((state[base + j] as number) - max);
+  }
+  return shift;
 }
 
 /** The helper thread's side: keep the shards `load` hands over, answer `evaluate` for each in load order (fresh arrays, free to transfer). */

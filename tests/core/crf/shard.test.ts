@@ -9,12 +9,16 @@ import {
   type CrfSequence,
   type CrfShardData,
   type CrfShardHelper,
+  CrfShardObjective,
   crfShardService,
   crfShardsSplit,
   crfTrain,
   datasetBuild,
+  IntBuffer,
   labelsFromTags,
+  Lattice,
   stateFeaturesCollect,
+  stateScoresFill,
 } from '../../../src/core/crf';
 import { mulberry32Floats } from '../../../src/core/random';
 import { corpusGenerate } from '../../../scripts/corpus/generate';
@@ -120,6 +124,45 @@ describe('the objective over shards', () => {
     const fOne = one.evaluate(w, gOne);
     expect(four.evaluate(w, gFour) / fOne).toBeCloseTo(1, 12);
     gFour.forEach((g, i) => expect(g).toBeCloseTo(gOne[i] as number, 8));
+  });
+});
+
+describe('CrfShardObjective', () => {
+  /** Σ log Z the plain way: per token, scores summed attribute by attribute, then Lattice.run (exp per token). */
+  function logZPlain(sequences: readonly CrfSequence[], weights: Float64Array): number {
+    const labels = labelsFromTags(sequences.map((s) => s.tags));
+    const L = labels.length;
+    const encoder = new AttributeEncoder();
+    const data = datasetBuild(sequences, encoder, labels);
+    const features = stateFeaturesCollect(data, encoder.size, L);
+    const expTrans = Float64Array.from(weights.subarray(features.labels.length), Math.exp);
+    let sum = 0;
+    for (const sequence of sequences) {
+      const ids = new IntBuffer();
+      const ends = new IntBuffer();
+      encoder.encode(sequence.words, ids, ends);
+      const T = sequence.words.length;
+      const state = new Float64Array(T * L);
+      stateScoresFill(features.starts, features.labels, weights, L, ends.data, ids.data, 0, T, state);
+      sum += new Lattice(L).run(T, state, expTrans, null);
+    }
+    return sum;
+  }
+
+  it('Σ log Z equals the plain per-token computation, also where weights are so far apart that products of unit rows underflow', () => {
+    const { data, structure } = built(TINY);
+    const [shard] = crfShardsSplit(data, structure, 1);
+    const objective = new CrfShardObjective(shard as CrfShardData);
+    const random = mulberry32Floats(21);
+    for (const spread of [1, 2000]) {
+      // At 2000, unit rows differ by hundreds per label, so their five-fold products fall under 1e-200 and the per-token path must take over
+      // (transition weights stay small: exp of them is taken as it is, in both computations).
+      const stateCount = (shard as CrfShardData).featureLabels.length;
+      const w = Float64Array.from({ length: objective.size }, (_, i) => (random() - 0.5) * (i < stateCount ? spread : 2));
+      const got = objective.evaluate(w, new Float64Array(objective.size));
+      expect(Number.isFinite(got)).toBe(true);
+      expect(got / logZPlain(TINY, w)).toBeCloseTo(1, 12);
+    }
   });
 });
 
