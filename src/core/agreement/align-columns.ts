@@ -119,20 +119,24 @@ export class AlignColumnsTarget implements ColumnsTarget {
     this.tags.length += count;
   }
 
+  /**
+   * The layer; its typed arrays are views of the arrays filled (no copy: at this size a copy is
+   * tens of megabytes, and big fresh buffers bring on full collections).
+   */
   done(): AlignLayerData {
     return {
       name: this.name,
       count: this.ids.length,
       ids: this.ids,
-      lines: this.lines.done(),
+      lines: this.lines.data.subarray(0, this.lines.length),
       texts: this.texts,
-      tokenStart: this.tokenStart.done(),
-      ranges: this.ranges.done(),
-      tokenLines: this.tokenLines.done(),
-      tagCounts: this.tagCounts.done(),
-      tags: this.tags.done(),
+      tokenStart: this.tokenStart.data.subarray(0, this.tokenStart.length),
+      ranges: this.ranges.data.subarray(0, this.ranges.length),
+      tokenLines: this.tokenLines.data.subarray(0, this.tokenLines.length),
+      tagCounts: this.tagCounts.data.subarray(0, this.tagCounts.length),
+      tags: this.tags.data.subarray(0, this.tags.length),
       slotNames: [...this.slots.names],
-      intents: this.intents.done(),
+      intents: this.intents.data.subarray(0, this.intents.length),
       intentNames: [...this.intentNames.names],
     };
   }
