@@ -80,6 +80,13 @@ export async function corpusRowsRead(db: SlotsmithDb, ids: ArrayLike<number>, co
   });
 }
 
+/** The first `count` rows in seq order: the unfiltered table's first screen, read without the id list. */
+export async function corpusRowsFirst(db: SlotsmithDb, count: number, context: CorpusRowsContext): Promise<CorpusRow[]> {
+  const { minKey, maxKey } = Dexie;
+  const ids = await db.utterances.where('[projectId+seq]').between([context.projectId, minKey], [context.projectId, maxKey]).limit(count).primaryKeys();
+  return corpusRowsRead(db, ids, context);
+}
+
 /** Every utterance id of the project in seq order, from the index keys alone (the unfiltered table). */
 export async function corpusIdsInSeqOrder(db: SlotsmithDb, projectId: number): Promise<Int32Array> {
   const { minKey, maxKey } = Dexie;

@@ -12,7 +12,7 @@ import type { Utterance } from '../../src/core/types';
 import { batchAppend, batchBegin, batchFinish } from '../../src/db/batch-repo';
 import { corpusIndexBuild } from '../../src/db/corpus-index';
 import { CORPUS_SORT_KEYS, corpusQueryRun, type CorpusFilter, type CorpusQuery, type CorpusSortKey } from '../../src/db/corpus-query';
-import { corpusRowsRead, type CorpusRow } from '../../src/db/corpus-rows';
+import { corpusRowsFirst, corpusRowsRead, type CorpusRow } from '../../src/db/corpus-rows';
 import { corpusIndexStoreOpen } from '../../src/db/corpus-index-store';
 import { CorpusService } from '../../src/db/corpus-service';
 import { layerSave } from '../../src/db/layer-repo';
@@ -137,6 +137,17 @@ describe('corpus index and query', () => {
       ['hr-5', null, null, null],
       ['hr-2', ANA[1]?.tags, 'ask_price', null],
     ]);
+  });
+
+  it('reads the top rows of the plain table without the id list, as reading the first ids does', async () => {
+    const db = dbTest();
+    const projectId = await projectSample(db);
+    const ids = (await corpusIndexBuild(db, projectId)).ids;
+    for (const [layer, blind] of [['ana', false], ['ben', true], [null, false]] as const) {
+      const context = { projectId, layer, blind };
+      expect(await corpusRowsFirst(db, 4, context)).toEqual(await corpusRowsRead(db, ids.slice(0, 4), context));
+      expect(await corpusRowsFirst(db, 50, context)).toEqual(await corpusRowsRead(db, ids, context));
+    }
   });
 
   it('the service rebuilds after an edit and reuses the index otherwise', async () => {

@@ -13,6 +13,8 @@ import { SlotText } from './SlotText';
 export const CORPUS_ROW_HEIGHT = 40;
 /** Rows read from the database at a time; windows are whole pages so small scrolls reuse a read. */
 const PAGE = 50;
+/** Rows the table reads first at the top (its first page and the margin after it). */
+export const CORPUS_ROWS_FIRST = 2 * PAGE;
 /** Rows kept in memory beyond the visible window, so scrolling back does not flash placeholders. */
 const CACHE_MAX = 1000;
 
@@ -22,6 +24,8 @@ interface RowCache {
   /** Rows of the same view before the data changed, shown until the fresh ones arrive. */
   stale: Map<number, CorpusRow>;
   reading: Set<number>;
+  /** The pre-read rows already taken in. */
+  seeded: unknown;
 }
 
 /** One place in the table: its position and the row when read. */
@@ -46,6 +50,13 @@ export interface CorpusTableProps {
   busy: boolean;
   /** Changes whenever the project's data does (see corpusIndexSignature), so visible rows are read again. */
   signature: string;
+  /** Rows read ahead of the ids (the top of the plain table), for the view and data state `key` names (see corpusRowsKey). */
+  preread?: { key: string; rows: readonly CorpusRow[] } | null;
+}
+
+/** What rows read for a table belong to: one way of showing them and one state of the data. */
+export function corpusRowsKey(projectId: number, layer: string | null, blind: boolean, signature: string): string {
+  return `${projectId}|${layer ?? ''}|${blind}|${signature}`;
 }
 
 const placeholder = <span className="corpus-wait">…</span>;
@@ -149,7 +160,7 @@ const RowView = memo(function RowView({ row, start, tabbable, onOpenAt, onFocusI
 (a, b) => a.row.original.row === b.row.original.row && a.row.original.index === b.row.original.index && a.start === b.start && a.tabbable === b.tabbable && a.columns === b.columns && a.onOpenAt === b.onOpenAt);
 
 /** The utterance table: every matching row reachable by scrolling, only the visible ones rendered and read. */
-export function CorpusTable({ projectId, ids, layer, blind, schema, sort, onSort, onOpen, describedBy, busy, signature }: CorpusTableProps) {
+export function CorpusTable({ projectId, ids, layer, blind, schema, sort, onSort, onOpen, describedBy, busy, signature, preread = null }: CorpusTableProps) {
   const scrollRef = useRef<HTMLDivElement>(null);
   // The virtualiser's object changes meaning on every scroll, so nothing derived from it may be memoised; this component does not.
   // eslint-disable-next-line react-hooks/incompatible-library
@@ -169,12 +180,17 @@ export function CorpusTable({ projectId, ids, layer, blind, schema, sort, onSort
 
   // Rows already read, by utterance id, for one way of showing them (layer, blind) and one state of
   // the data; after an edit the old rows stay on screen until their fresh copies arrive.
-  const cacheKey = `${projectId}|${layer ?? ''}|${blind}|${signature}`;
-  const cache = useRef<RowCache>({ key: cacheKey, rows: new Map(), stale: new Map(), reading: new Set() });
+  const cacheKey = corpusRowsKey(projectId, layer, blind, signature);
+  const cache = useRef<RowCache>({ key: cacheKey, rows: new Map(), stale: new Map(), reading: new Set(), seeded: null });
   if (cache.current.key !== cacheKey) {
     const old = cache.current;
     const sameView = old.key.slice(0, old.key.lastIndexOf('|')) === cacheKey.slice(0, cacheKey.lastIndexOf('|'));
-    cache.current = { key: cacheKey, rows: new Map(), stale: sameView ? new Map([...old.stale, ...old.rows]) : new Map(), reading: new Set() };
+    cache.current = { key: cacheKey, rows: new Map(), stale: sameView ? new Map([...old.stale, ...old.rows]) : new Map(), reading: new Set(), seeded: null };
+  }
+  if (preread !== null && preread.key === cacheKey && cache.current.seeded !== preread) {
+    // Only rows not read since: the table's own reads are as fresh or fresher.
+    for (const r of preread.rows) if (!cache.current.rows.has(r.id)) cache.current.rows.set(r.id, r);
+    cache.current.seeded = preread;
   }
   const [version, setVersion] = useState(0);
   useEffect(() => {
@@ -219,7 +235,7 @@ export function CorpusTable({ projectId, ids, layer, blind, schema, sort, onSort
     }
     return slots;
     // `version` and `cacheKey` say when the cache holds something new.
-  }, [ids, pageFrom, pageTo, version, cacheKey]); // eslint-disable-line react-hooks/exhaustive-deps
+  }, [ids, pageFrom, pageTo, version, cacheKey, preread]); // eslint-disable-line react-hooks/exhaustive-deps
 
   const columns = useMemo(() => columnsMake(schema, blind), [schema, blind]);
   const sorting = useMemo<SortingState>(() => [{ id: sort.key, desc: sort.desc }], [sort.key, sort.desc]);

@@ -4,7 +4,7 @@ import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { projectGet } from '../../../db';
 import { corpusIndexSignature } from '../../../db/corpus-index';
 import type { CorpusFilter, CorpusQuery, CorpusSort } from '../../../db/corpus-query';
-import { corpusAnnotators, corpusIdsInSeqOrder } from '../../../db/corpus-rows';
+import { corpusAnnotators, corpusIdsInSeqOrder, corpusRowsFirst, type CorpusRow } from '../../../db/corpus-rows';
 import type { CorpusAnswer } from '../../../db/corpus-service';
 import { useNav } from '../../../state/nav';
 import { useSession } from '../../../state/session';
@@ -13,7 +13,7 @@ import { appDb } from '../../app/db';
 import { corpusMark, corpusWorker } from './corpus-client';
 import { corpusFilterCount, corpusStateFromQuery, corpusStateNeedsIndex, corpusStateToQuery, type CorpusViewState } from './corpus-url';
 import { CorpusFilters } from './CorpusFilters';
-import { CorpusTable } from './CorpusTable';
+import { CORPUS_ROWS_FIRST, corpusRowsKey, CorpusTable } from './CorpusTable';
 import './corpus.css';
 
 interface Answer {
@@ -47,7 +47,10 @@ export function CorpusView({ projectId }: ProjectViewProps) {
   useEffect(() => {
     corpusWorker()
       .warm(projectId)
-      .then((how) => corpusMark(`warm-${how ?? 'none'}`))
+      .then(async (how) => {
+        corpusMark(`warm-${how ?? 'none'}`);
+        for (const [step, at] of await corpusWorker().steps()) corpusMark(`worker-${step}`, at - performance.timeOrigin);
+      })
       .catch(() => undefined);
     void appDb()
       .open()
@@ -124,6 +127,22 @@ export function CorpusView({ projectId }: ProjectViewProps) {
     };
     // `key` stands for layer, filter, sort and blind.
   }, [key, signature, annotatorsKey, needsIndex, projectId]); // eslint-disable-line react-hooks/exhaustive-deps
+
+  // The plain table's top rows, read while the worker answers: they do not depend on its answer.
+  const [preread, setPreread] = useState<{ key: string; rows: CorpusRow[] } | null>(null);
+  const plain = corpusFilterCount(filter) === 0 && state.sort.key === 'id' && !state.sort.desc;
+  const hasAnswer = answer !== null;
+  useEffect(() => {
+    if (!plain || hasAnswer || signature === undefined || annotatorsKey === undefined) return undefined;
+    let live = true;
+    const rowsKey = corpusRowsKey(projectId, layer, blind, signature);
+    corpusRowsFirst(appDb(), CORPUS_ROWS_FIRST, { projectId, layer, blind })
+      .then((rows) => live && setPreread({ key: rowsKey, rows }))
+      .catch(() => undefined);
+    return () => {
+      live = false;
+    };
+  }, [plain, hasAnswer, signature, annotatorsKey, projectId, layer, blind]);
 
   // With the first rows on screen, build (or bring up to date) the filter index in the worker, so the next filter is quick.
   const shown = answer !== null;
@@ -218,6 +237,7 @@ export function CorpusView({ projectId }: ProjectViewProps) {
           describedBy="corpus-help"
           busy={busy}
           signature={signature ?? ''}
+          preread={preread}
         />
       )}
     </section>

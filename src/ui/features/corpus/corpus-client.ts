@@ -10,6 +10,6 @@ export function corpusWorker(): Comlink.Remote<CorpusWorkerApi> {
 }
 
 /** A Performance API mark of a step towards the first rows (the table bench reads them; `slotsmith-corpus:` names). */
-export function corpusMark(step: string): void {
-  performance.mark(`slotsmith-corpus:${step}`);
+export function corpusMark(step: string, startTime?: number): void {
+  performance.mark(`slotsmith-corpus:${step}`, startTime === undefined ? undefined : { startTime });
 }
