@@ -107,40 +107,46 @@ function rowsByPosition(layers: readonly AlignLayerData[]): Rows {
 /** Check every present utterance against the first layer holding it; returns each position's token count. */
 function tokensCheck(layers: readonly AlignLayerData[], rows: Rows, errors: AlignErrorList): Int32Array {
   const counts = new Int32Array(rows.count);
+  // Plain loops, and places built only for an error: this runs once per utterance and layer.
   for (let u = 0; u < rows.count; u++) {
     let reference: AlignLayerData | undefined;
     let referenceK = -1;
-    const id = rows.ids[u] ?? null;
-    layers.forEach((layer, l) => {
+    let referenceTokens = 0;
+    for (let l = 0; l < layers.length; l++) {
+      const layer = layers[l] as AlignLayerData;
       const k = rows.rows[l]?.[u] ?? -1;
-      if (k < 0) return;
+      if (k < 0) continue;
       const tokens = layerTokenCount(layer, k);
       const tags = layer.tagCounts[k] ?? 0;
       if (tags !== tokens) {
+        const id = rows.ids[u] ?? null;
         const place = placeAt(layer, k);
         errors.add('tags-count', id, u, [place], `${utteranceName(id, u)} in ${placeText(place)}: ${String(tokens)} tokens but ${String(tags)} tags`);
       }
       if (reference === undefined) {
         reference = layer;
         referenceK = k;
+        referenceTokens = tokens;
         counts[u] = tokens;
-        return;
+        continue;
       }
-      const places = [placeAt(reference, referenceK), placeAt(layer, k)];
-      const referenceTokens = layerTokenCount(reference, referenceK);
       if (tokens !== referenceTokens) {
+        const id = rows.ids[u] ?? null;
+        const places = [placeAt(reference, referenceK), placeAt(layer, k)];
         const a = `${placeText(places[0] ?? { layer: '', line: null })} has ${String(referenceTokens)} tokens`;
         const b = `${placeText(places[1] ?? { layer: '', line: null })} has ${String(tokens)}`;
         errors.add('tokens-differ', id, u, places, `${utteranceName(id, u)}: ${a}, ${b}`);
-        return;
+        continue;
       }
       const t = layerTokensFirstDifference(reference, referenceK, layer, k);
       if (t >= 0) {
+        const id = rows.ids[u] ?? null;
+        const places = [placeAt(reference, referenceK), placeAt(layer, k)];
         const a = `${JSON.stringify(layerTokenText(reference, referenceK, t))} in ${reference.name} (${lineText(layerTokenLine(reference, referenceK, t))})`;
         const b = `${JSON.stringify(layerTokenText(layer, k, t))} in ${layer.name} (${lineText(layerTokenLine(layer, k, t))})`;
         errors.add('tokens-differ', id, u, places, `${utteranceName(id, u)}, token ${String(t + 1)}: ${a} but ${b}`);
       }
-    });
+    }
   }
   return counts;
 }
