@@ -1,10 +1,12 @@
 /** A helper thread of the agreement worker: one contiguous range of bootstrap resamples (the core's stream is splittable). */
 import * as Comlink from 'comlink';
-import { bootstrapRange, type BootstrapJob, type ResampleValues } from '../core/agreement';
+import { bootstrapTotalsRange, type BootstrapJob } from '../core/agreement';
 
 const api = {
-  range(rows: BootstrapJob['rows'], layout: BootstrapJob['layout'], seed: number, from: number, to: number): ResampleValues {
-    return bootstrapRange(rows, layout, seed, from, to);
+  /** Totals of resamples [from, to), handed over without a copy. */
+  range(rows: BootstrapJob['rows'], layout: BootstrapJob['layout'], seed: number, from: number, to: number): Float64Array {
+    const totals = bootstrapTotalsRange(rows, layout, seed, from, to);
+    return Comlink.transfer(totals, [totals.buffer]);
   },
 };
 

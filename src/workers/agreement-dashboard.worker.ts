@@ -1,6 +1,7 @@
 /** The agreement and overview computations off the page's thread, over the worker's own database connection. */
 import * as Comlink from 'comlink';
 import { agreementCacheOpen, type AgreementCache } from '../db/agreement-cache';
+import { bootstrapStoreOpen, type BootstrapStore } from '../db/bootstrap-store';
 import { layerCopyStoreOpen, type LayerCopyStore } from '../db/layer-copy-store';
 import { dbOpen, type SlotsmithDb } from '../db/schema';
 import type { AgreementBootstrapApi } from './agreement-bootstrap.worker';
@@ -13,6 +14,7 @@ import { workerCrashed } from './worker-job';
 let db: SlotsmithDb | undefined;
 let cache: AgreementCache<AgreementResult> | undefined;
 let copies: LayerCopyStore | undefined;
+let totals: BootstrapStore | undefined;
 
 /** One helper per further core, up to three: the page's own thread stays free, as it waits on us. */
 function helpersStart(): BootstrapHelper[] {
@@ -41,11 +43,13 @@ const api = {
     db ??= dbOpen();
     cache ??= agreementCacheOpen<AgreementResult>(indexedDB);
     copies ??= layerCopyStoreOpen(indexedDB);
+    totals ??= bootstrapStoreOpen(indexedDB);
     return agreementRun(db, request, (p) => void onProgress(p), {
       ...(onPoint !== undefined && { onPoint: (early: AgreementResult) => void onPoint(early) }),
       bootstrap: bootstrapParallel(helpersStart),
       cache,
       copies,
+      totals,
       fresh,
     });
   },

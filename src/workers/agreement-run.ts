@@ -7,13 +7,13 @@
 import {
   agreementIntervalsAdd,
   agreementPrepare,
-  bootstrapRange,
-  resampleValuesJoin,
+  bootstrapTotalsPatched,
+  bootstrapTotalsRange,
+  resampleValuesFromTotals,
   type AgreementReport,
   type AlignError,
   type BootstrapJob,
   type Disagreement,
-  type ResampleValues,
 } from '../core/agreement';
 import type { LayerStatus } from '../core/backup/model';
 import type { AgreementCache } from '../db/agreement-cache';
@@ -24,6 +24,8 @@ import { layersExist, layersScan } from './agreement-read';
 import { layerCopiesFor } from './layer-copies';
 import { layerCopyHas } from '../db/layer-copy';
 import type { LayerCopyStore } from '../db/layer-copy-store';
+import type { BootstrapStore } from '../db/bootstrap-store';
+import { totalsJoin } from './agreement-parallel';
 import { agreementOverTime, type TimePoint } from './agreement-time';
 
 export interface AgreementRequest {
@@ -110,17 +112,17 @@ async function disagreementRows(db: SlotsmithDb, items: readonly Disagreement[])
 
 const now = () => performance.now();
 
-/** Resamples [0, job.resamples) of the core's bootstrap, joined in order; may spread them over threads. */
-export type BootstrapRunner = (job: BootstrapJob, onProgress: (done: number) => void) => Promise<ResampleValues>;
+/** Totals of resamples [0, job.resamples) of the core's bootstrap, joined in order; may spread them over threads. */
+export type BootstrapRunner = (job: BootstrapJob, onProgress: (done: number) => void) => Promise<Float64Array>;
 
 /** On this thread, in steps, so progress can be reported between them. */
 export const bootstrapHere: BootstrapRunner = (job, onProgress) => {
-  const parts: ResampleValues[] = [];
+  const parts: Float64Array[] = [];
   for (let from = 0; from < job.resamples; from += BOOTSTRAP_STEP) {
     onProgress(from);
-    parts.push(bootstrapRange(job.rows, job.layout, job.seed, from, Math.min(job.resamples, from + BOOTSTRAP_STEP)));
+    parts.push(bootstrapTotalsRange(job.rows, job.layout, job.seed, from, Math.min(job.resamples, from + BOOTSTRAP_STEP)));
   }
-  return Promise.resolve(resampleValuesJoin(parts));
+  return Promise.resolve(totalsJoin(parts));
 };
 
 export interface AgreementRunOptions {
@@ -129,12 +131,14 @@ export interface AgreementRunOptions {
   bootstrap?: BootstrapRunner;
   /** Results kept from earlier runs on unchanged layers (see `agreementCacheOpen`). */
   cache?: AgreementCache<AgreementResult>;
-  /** Compute even when the cache holds the figures ("Compute again"); the new result replaces them. */
+  /** Compute from the database even when figures, layer copies or totals are kept ("Compute again"); the new ones replace them. */
   fresh?: boolean;
   /** Compact copies of the layers kept between runs (see layer-copies.ts); without, every layer is read each run. */
   copies?: LayerCopyStore;
-  /** Called with the promise of storing new layer copies (tests wait for it). */
-  onCopiesSaved?: (saved: Promise<void>) => void;
+  /** The last bootstrap totals per choice of layers: after an edit they are patched, not resampled (core `bootstrapTotalsPatched`). */
+  totals?: BootstrapStore;
+  /** Called with each promise of storing layer copies or totals for the next run (tests wait for them). */
+  onStored?: (stored: Promise<void>) => void;
 }
 
 /** One cache entry per choice that changes the figures. */
@@ -174,8 +178,8 @@ export async function agreementRun(
   let gathered: GatheredLayer[];
   const reading = (p: { done: number; total: number }) => onProgress({ phase: 'reading', ...p });
   if (options.copies !== undefined && signature !== null) {
-    const { copies, saved } = await layerCopiesFor(db, options.copies, projectId, annotators, signature, reading, steps);
-    options.onCopiesSaved?.(saved);
+    const { copies, saved } = await layerCopiesFor(db, options.copies, projectId, annotators, signature, reading, steps, options.fresh === true);
+    options.onStored?.(saved);
     const empty = annotators.filter((_, i) => !layerCopyHas(copies[i] as (typeof copies)[number], statuses));
     if (empty.length > 0) return { ok: false, message: `No layers of ${empty.join(', ')} with status ${statuses.join(' or ')}: nothing to compare.` };
     step('copies');
@@ -227,10 +231,16 @@ export async function agreementRun(
     return final;
   }
   options.onPoint?.(result(structuredClone(pending.report), true));
-  const bootstrap = options.bootstrap ?? bootstrapHere;
-  const values = await bootstrap(job, (done) => onProgress({ phase: 'intervals', done, total: job.resamples }));
+  const intervals = (done: number) => onProgress({ phase: 'intervals', done, total: job.resamples });
+  const key = requestKey(request);
+  // "Compute again" resamples from scratch, as it reads every layer again.
+  const kept = options.totals === undefined || options.fresh === true ? undefined : await options.totals.load(projectId, key);
+  const patched = kept === undefined ? null : bootstrapTotalsPatched(kept, job.rows, job.layout, job.seed, { onProgress: intervals });
+  step(patched === null ? 'totals kept: none' : `totals patched (${patched.changed} utterances changed)`);
+  const totals = patched?.totals ?? (await (options.bootstrap ?? bootstrapHere)(job, intervals));
   step('bootstrap');
-  const final = result(agreementIntervalsAdd(pending, values), false);
+  if (options.totals !== undefined) options.onStored?.(options.totals.save(projectId, key, { rows: job.rows, layout: job.layout, seed: job.seed, totals }));
+  const final = result(agreementIntervalsAdd(pending, resampleValuesFromTotals(totals, job.layout)), false);
   if (cache !== undefined && signature !== null) await cache.save(projectId, requestKey(request), signature, final);
   return final;
 }

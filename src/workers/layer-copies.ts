@@ -74,6 +74,8 @@ export async function layerCopiesFor(
   onProgress: (p: LayerScanProgress) => void = () => {},
   /** Adds the time (ms) of loading, patching and reading in full. */
   steps?: Record<string, number>,
+  /** Read every layer even when a copy is kept (and store the new copies). */
+  fresh = false,
 ): Promise<LayerCopiesOutcome> {
   let at = performance.now();
   const lap = (name: string) => {
@@ -82,7 +84,7 @@ export async function layerCopiesFor(
     steps[name] = (steps[name] ?? 0) + t - at;
     at = t;
   };
-  const stored = await store.load(projectId, annotators);
+  const stored = fresh ? new Map<string, LayerCopy>() : await store.load(projectId, annotators);
   lap('copies load');
   const have = new Map<string, LayerCopy>();
   const how: LayerCopiesOutcome['how'] = {};

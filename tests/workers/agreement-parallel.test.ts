@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { agreementPrepare, bootstrapRange, layersAlign } from '../../src/core/agreement';
+import { agreementPrepare, bootstrapRange, bootstrapTotalsRange, layersAlign, resampleValuesFromTotals } from '../../src/core/agreement';
 import { columnsRead } from '../../src/core/formats';
 import { bootstrapParallel, type BootstrapHelper } from '../../src/workers/agreement-parallel';
 import { bootstrapHere } from '../../src/workers/agreement-run';
@@ -26,7 +26,7 @@ function helpersHere(count: number, asked: [number, number][], ended: number[]):
       range: async (rows, layout, seed, from, to) => {
         asked.push([from, to]);
         await new Promise((r) => setTimeout(r, 5));
-        return bootstrapRange(rows, layout, seed, from, to);
+        return bootstrapTotalsRange(rows, layout, seed, from, to);
       },
       end: () => ended.push(k),
     }));
@@ -42,6 +42,8 @@ describe('bootstrapParallel', () => {
       const seen: number[] = [];
       const got = await bootstrapParallel(helpersHere(count, asked, ended))(j, (d) => seen.push(d));
       expect(got).toEqual(want);
+      // And the totals give the values one pass of the core's bootstrapRange gives.
+      expect(resampleValuesFromTotals(got, j.layout)).toEqual(bootstrapRange(j.rows, j.layout, j.seed, 0, 301));
       // Contiguous shares from 0, this thread taking the last.
       const size = Math.ceil(301 / (count + 1));
       expect(asked.sort((x, y) => x[0] - y[0])).toEqual(Array.from({ length: count }, (_, k) => [k * size, (k + 1) * size]));

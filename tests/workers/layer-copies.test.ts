@@ -6,6 +6,7 @@ import { LAYER_STATUSES, type LayerStatus } from '../../src/core/backup/model';
 import { columnsRead } from '../../src/core/formats';
 import { corpusIndexSignature, type CorpusSignature } from '../../src/db/corpus-index';
 import { layerCopiesVisit, layerCopyPatched, LayerCopyBuilder, type LayerCopyRow } from '../../src/db/layer-copy';
+import { bootstrapStoreOpen } from '../../src/db/bootstrap-store';
 import { layerCopyStoreOpen } from '../../src/db/layer-copy-store';
 import { layerSave } from '../../src/db/layer-repo';
 import type { SlotsmithDb } from '../../src/db/schema';
@@ -127,14 +128,15 @@ describe('layer copies', () => {
     expect(visited(next.copies, null)).toEqual(await scanned(db, projectId, ['ann-b'], null));
   });
 
-  it('give the agreement and overview figures the rows give, before and after edits', async () => {
+  it('give the agreement (with kept bootstrap totals) and overview figures the rows give, before and after edits', async () => {
     const { db, projectId, idOf, store } = await seeded();
+    const totals = bootstrapStoreOpen(new IDBFactory());
     const request = { projectId, annotators: ['ann-a', 'ann-b'], pair: ['ann-a', 'ann-b'] as [string, string], statuses: ['done'] as LayerStatus[], bootstrap: 40 };
     const shown = (r: AgreementResult) => ({ report: r.report, overTime: r.overTime, counted: r.counted, disagreements: r.disagreements });
     const runs = async () => {
-      let saved: Promise<void> = Promise.resolve();
-      const withCopies = ok(await agreementRun(db, request, undefined, { copies: store, onCopiesSaved: (p) => (saved = p) }));
-      await saved;
+      const stored: Promise<void>[] = [];
+      const withCopies = ok(await agreementRun(db, request, undefined, { copies: store, totals, onStored: (p) => stored.push(p) }));
+      await Promise.all(stored);
       const withRows = ok(await agreementRun(db, request));
       expect(shown(withCopies)).toEqual(shown(withRows));
       for (const source of [null, 'ann-b']) {
@@ -151,6 +153,8 @@ describe('layer copies', () => {
     await edit(db, idOf.get(shared?.id ?? '') as number, 'ann-b', { tags: (shared?.tags ?? []).map(() => 'O') });
     const second = await runs();
     expect(second.timings.steps['copies read']).toBeUndefined();
+    // The intervals came from the kept totals, patched for the one edited utterance (and equal a fresh run's, above).
+    expect(Object.keys(second.timings.steps)).toContain('totals patched (1 utterances changed)');
     expect(second.report.kappa.tag.value).not.toEqual(first.report.kappa.tag.value);
   });
 

@@ -141,41 +141,61 @@ function totalsLaned(columns: { start: Int32Array; pattern: Int32Array; value: I
   }
 }
 
+/** mulberry32's state before the first draw of resample `from` (state before call k is seed + k·step mod 2^32). */
+export function bootstrapStateAt(seed: number, count: number, from: number): number {
+  // Math.imul keeps the product exact mod 2^32.
+  return ((seed >>> 0) + Math.imul(from, Math.imul(count, MULBERRY_STEP))) | 0;
+}
+
 /**
- * Resamples [from, to) of the bootstrap stream for `seed`. Resample r makes `count` draws of
- * mulberry32(seed) starting at call r·count; mulberry32's state only advances by a constant, so any
- * range starts straight at its own state, and ranges computed apart (e.g. in workers) join into
- * exactly the values of one pass. A resample draws utterances into multiplicities w_p of their rows,
- * then the totals are Σ w_p · row_p over the distinct sparse rows: O(utterances + entries), never O(tokens).
- * Totals are integer sums below 2^53, exact in any order, so summing LANES resamples side by side
- * (and by column) gives exactly the one-at-a-time values.
+ * Totals of resamples [from, to) of the bootstrap stream for `seed`: resample r's totals are
+ * `out[(r − from)·width .. (r − from + 1)·width)`. Resample r makes `count` draws of mulberry32(seed)
+ * starting at call r·count; mulberry32's state only advances by a constant, so any range starts
+ * straight at its own state, and ranges computed apart (e.g. in workers) join into exactly the values
+ * of one pass. A resample draws utterances into multiplicities w_p of their rows, then the totals are
+ * Σ w_p · row_p over the distinct sparse rows: O(utterances + entries), never O(tokens). Totals are
+ * integer sums below 2^53, exact in any order, so summing LANES resamples side by side (and by
+ * column) gives exactly the one-at-a-time values.
  */
-export function bootstrapRange(rows: UtteranceRows, layout: TotalsLayout, seed: number, from: number, to: number): ResampleValues {
+export function bootstrapTotalsRange(rows: UtteranceRows, layout: TotalsLayout, seed: number, from: number, to: number): Float64Array {
   const { patternOf } = rows;
   const count = patternOf.length;
   const patterns = rows.rowStart.length - 1;
   const weights = new Int32Array(patterns);
   const laned = new Int32Array(patterns * LANES);
   const width = layout.width;
-  const totals = new Float64Array(width * LANES);
+  const lanedTotals = new Float64Array(width * LANES);
+  const out = new Float64Array(Math.max(0, to - from) * width);
   const columns = rowsByColumn(rows, width);
-  const values = {} as ResampleValues;
-  for (const name of FIGURE_NAMES) values[name] = new Float64Array(Math.max(0, to - from));
-  // State before call k is seed + k·step (mod 2^32); Math.imul keeps the product exact mod 2^32.
-  let state = ((seed >>> 0) + Math.imul(from, Math.imul(count, MULBERRY_STEP))) | 0;
+  let state = bootstrapStateAt(seed, count, from);
   for (let r0 = from; r0 < to; r0 += LANES) {
     const lanes = Math.min(LANES, to - r0);
     for (let i = 0; i < lanes; i++) {
       state = drawsCount(patternOf, weights, state);
       for (let p = 0; p < patterns; p++) laned[p * LANES + i] = weights[p] as number;
     }
-    totalsLaned(columns, laned, width, totals);
-    for (let i = 0; i < lanes; i++) {
-      const figures = pairFiguresFromTotals(totals.subarray(i * width, (i + 1) * width), layout);
-      for (const name of FIGURE_NAMES) values[name][r0 + i - from] = figureValue(figures, name) ?? Number.NaN;
-    }
+    totalsLaned(columns, laned, width, lanedTotals);
+    out.set(lanedTotals.subarray(0, lanes * width), (r0 - from) * width);
+  }
+  return out;
+}
+
+/** Every figure's value on each resample whose totals `totals` holds (NaN where undefined). */
+export function resampleValuesFromTotals(totals: Float64Array, layout: TotalsLayout): ResampleValues {
+  const width = layout.width;
+  const resamples = width === 0 ? 0 : totals.length / width;
+  const values = {} as ResampleValues;
+  for (const name of FIGURE_NAMES) values[name] = new Float64Array(resamples);
+  for (let r = 0; r < resamples; r++) {
+    const figures = pairFiguresFromTotals(totals.subarray(r * width, (r + 1) * width), layout);
+    for (const name of FIGURE_NAMES) values[name][r] = figureValue(figures, name) ?? Number.NaN;
   }
   return values;
+}
+
+/** Resamples [from, to) of the bootstrap stream for `seed` (see `bootstrapTotalsRange`), as figure values. */
+export function bootstrapRange(rows: UtteranceRows, layout: TotalsLayout, seed: number, from: number, to: number): ResampleValues {
+  return resampleValuesFromTotals(bootstrapTotalsRange(rows, layout, seed, from, to), layout);
 }
 
 /** Ranges of resamples joined in order (each value array as long as its range). */

@@ -1,7 +1,10 @@
 export { alignBuilder, layerDataAlign, layersAlign, type AlignBuilder } from './align';
 export { AlignLayerGatherer, type AlignLayerData } from './align-layer';
+export { bootstrapTotalsPatched, type BootstrapTotals } from './bootstrap-patch';
 export {
   bootstrapRange,
+  bootstrapTotalsRange,
+  resampleValuesFromTotals,
   mulberry32,
   percentileInterval,
   quantileSorted,

@@ -1,0 +1,110 @@
+/**
+ * Bootstrap totals after an edit, without resampling again. A resample's totals are Σ_u w_u · row_u
+ * (w_u: how often resample r drew utterance u), so when a few utterances' rows change and the
+ * shared utterances stay the same, each resample's totals change by Σ over the changed u of
+ * w_u · (row_u new − row_u old). The draws are replayed to learn w_u for the changed u only (no
+ * counting into rows, no summing of entries): the same numbers as resampling from scratch, exactly
+ * (integer totals), at a fraction of the time.
+ */
+import { bootstrapStateAt } from './bootstrap';
+import type { UtteranceRows } from './pair-counts';
+import type { TotalsLayout } from './totals';
+
+const MULBERRY_STEP = 0x6d2b79f5;
+
+/** Changed utterances (positions among the shared ones) and their dense row changes, `width` each. */
+interface RowChanges {
+  positions: Int32Array;
+  deltas: Float64Array;
+}
+
+/** Utterances whose row differs between `before` and `after` (same shared utterances, same layout). */
+export function rowChanges(before: UtteranceRows, after: UtteranceRows, width: number): RowChanges {
+  const count = after.patternOf.length;
+  const positions: number[] = [];
+  const deltas: number[] = [];
+  const delta = new Float64Array(width);
+  for (let u = 0; u < count; u++) {
+    const p = before.patternOf[u] as number;
+    const q = after.patternOf[u] as number;
+    for (let j = before.rowStart[p] as number; j < (before.rowStart[p + 1] as number); j++) delta[before.index[j] as number]! -= before.value[j] as number;
+    for (let j = after.rowStart[q] as number; j < (after.rowStart[q + 1] as number); j++) delta[after.index[j] as number]! += after.value[j] as number;
+    let changed = false;
+    for (let k = 0; k < width; k++) if (delta[k] !== 0) changed = true;
+    if (changed) {
+      positions.push(u);
+      for (let k = 0; k < width; k++) deltas.push(delta[k] as number);
+    }
+    delta.fill(0);
+  }
+  return { positions: Int32Array.from(positions), deltas: Float64Array.from(deltas) };
+}
+
+/**
+ * One resample's `count` draws from `state`: each draw of a changed utterance adds its change to the
+ * resample's totals (at `base`). Returns the state after the last draw.
+ */
+function drawsReplay(count: number, state: number, marked: Int32Array, changeOf: Map<number, number>, deltas: Float64Array, totals: Float64Array, base: number, width: number): number {
+  let s = state;
+  for (let i = 0; i < count; i++) {
+    // mulberry32 inlined, as in the bootstrap's own draws (bootstrap.ts `drawsCount`).
+    s = (s + MULBERRY_STEP) | 0;
+    let t = s;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    const k = ((((t ^ (t >>> 14)) >>> 0) * count) / 4294967296) | 0;
+    if (((marked[k >> 5] as number) & (1 << (k & 31))) === 0) continue;
+    const from = changeOf.get(k) as number;
+    for (let j = 0; j < width; j++) totals[base + j]! += deltas[from + j] as number;
+  }
+  return s;
+}
+
+export interface BootstrapTotals {
+  rows: UtteranceRows;
+  layout: TotalsLayout;
+  seed: number;
+  /** Resamples [0, resamples) (see `bootstrapTotalsRange`). */
+  totals: Float64Array;
+}
+
+function layoutSame(a: TotalsLayout, b: TotalsLayout): boolean {
+  return a.tags === b.tags && a.intents === b.intents && a.width === b.width;
+}
+
+/**
+ * The totals of every resample of `before` for the rows `rows`, when they differ from `before.rows`
+ * only in some utterances' rows: same seed, same layout, same number of shared utterances (the draws
+ * depend on it), and at most `maxChanged` changed utterances. Null when that does not hold: resample
+ * from scratch then. `onProgress` gets the resamples done, every `step`.
+ */
+export function bootstrapTotalsPatched(
+  before: BootstrapTotals,
+  rows: UtteranceRows,
+  layout: TotalsLayout,
+  seed: number,
+  options: { maxChanged?: number; onProgress?: (done: number) => void; step?: number } = {},
+): { totals: Float64Array; changed: number } | null {
+  const count = rows.patternOf.length;
+  const width = layout.width;
+  if (before.seed !== seed || !layoutSame(before.layout, layout) || before.rows.patternOf.length !== count || width === 0) return null;
+  const { positions, deltas } = rowChanges(before.rows, rows, width);
+  if (positions.length > (options.maxChanged ?? Math.max(64, count >> 4))) return null;
+  const totals = before.totals.slice();
+  const resamples = totals.length / width;
+  if (positions.length === 0) return { totals, changed: 0 };
+  // One bit per position (a few KB, stays in cache): the draws only test it; hits look up the change.
+  const marked = new Int32Array((count >> 5) + 1);
+  const changeOf = new Map<number, number>();
+  positions.forEach((u, i) => {
+    marked[u >> 5]! |= 1 << (u & 31);
+    changeOf.set(u, i * width);
+  });
+  const step = options.step ?? 100;
+  let state = bootstrapStateAt(seed, count, 0);
+  for (let r = 0; r < resamples; r++) {
+    if (r % step === 0) options.onProgress?.(r);
+    state = drawsReplay(count, state, marked, changeOf, deltas, totals, r * width, width);
+  }
+  return { totals, changed: positions.length };
+}
