@@ -2,9 +2,11 @@
  * The utterance table on a 100k-utterance project, in Chromium: time from navigation to the first
  * rows on screen (unfiltered, and with a filter that needs the worker's index, built or loaded), frames
  * while the table scrolls (requestAnimationFrame deltas), how long a jump far down takes to fill,
- * and the page's JS heap afterwards. Numbers are printed, never asserted.
+ * and the page's JS heap afterwards. Numbers are printed, never asserted. For the unfiltered visits it
+ * also prints the steps on the way (the table's Performance marks, its worker's stamps, long tasks).
  *
- * Alone: `npx tsx bench/browser/corpus-table.ts` (BENCH_UTTERANCES, BENCH_BUILD=1 as for run.ts).
+ * Alone: `npx tsx bench/browser/corpus-table.ts` (BENCH_UTTERANCES, BENCH_BUILD=1 as for run.ts;
+ * BENCH_TABLE_PORT for the preview server, 4197 by default).
  */
 import { existsSync, mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';

@@ -281,16 +281,16 @@ function layersByUtterance(layers: readonly LayerRow[], projectId: number, wante
 /**
  * Build the index from the database in chunks of utterances (and their layers) in seq order; the
  * next chunk is read while the current one is worked through. `onProgress` gets utterances done and
- * the total: `expected` (e.g. the ids the table already shows), else a count once it comes in.
+ * the total once a count, taken beside the reading, comes in (until then, what was read).
  */
-export async function corpusIndexBuild(db: SlotsmithDb, projectId: number, onProgress?: (done: number, total: number) => void, expected = 0): Promise<CorpusIndex> {
+export async function corpusIndexBuild(db: SlotsmithDb, projectId: number, onProgress?: (done: number, total: number) => void): Promise<CorpusIndex> {
   const signature = await corpusIndexSignature(db, projectId);
   const project = await db.projects.get(projectId);
   if (project === undefined) throw new Error(`project ${projectId} does not exist`);
-  const fill = new CorpusIndexFill(projectId, project, Math.max(CHUNK, expected));
+  const fill = new CorpusIndexFill(projectId, project, CHUNK);
   // Only for the progress note: counted beside the reading (not before it), as the walk takes about a second at 100k on disk.
-  let total = expected;
-  if (onProgress !== undefined && expected === 0) {
+  let total = 0;
+  if (onProgress !== undefined) {
     db.utterances
       .where('[projectId+seq]')
       .between([projectId, Dexie.minKey], [projectId, Dexie.maxKey])
