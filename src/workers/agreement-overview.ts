@@ -149,7 +149,6 @@ export async function overviewRun(
   request: OverviewRequest,
   onProgress: (p: LayerScanProgress) => void = () => {},
   copies?: LayerCopyStore,
-  onCopiesSaved?: (saved: Promise<void>) => void,
 ): Promise<OverviewResult> {
   const tally = new OverviewTally(request);
   const { projectId } = request;
@@ -159,8 +158,9 @@ export async function overviewRun(
     const signature = await corpusIndexSignature(db, projectId);
     const annotators = [...new Set((await layerKeysDistinct(db, projectId)).map(([, annotator]) => annotator))];
     const had = await layerCopiesFor(db, copies, projectId, annotators, signature, onProgress);
-    onCopiesSaved?.(had.saved);
     layerCopiesVisit(had.copies, null, (row) => tally.rowAdd(row));
+    // Before the result: the page ends this worker once it has it.
+    await had.saved;
   }
   return tally.done(await utteranceCount(db, projectId));
 }

@@ -137,8 +137,7 @@ export interface AgreementRunOptions {
   copies?: LayerCopyStore;
   /** The last bootstrap totals per choice of layers: after an edit they are patched, not resampled (core `bootstrapTotalsPatched`). */
   totals?: BootstrapStore;
-  /** Called with each promise of storing layer copies or totals for the next run (tests wait for them). */
-  onStored?: (stored: Promise<void>) => void;
+
 }
 
 /** One cache entry per choice that changes the figures. */
@@ -176,10 +175,12 @@ export async function agreementRun(
   }
   step('cache');
   let gathered: GatheredLayer[];
+  // What is being stored for the next run: awaited before the result, as the page ends this worker once it has it.
+  const stores: Promise<void>[] = [];
   const reading = (p: { done: number; total: number }) => onProgress({ phase: 'reading', ...p });
   if (options.copies !== undefined && signature !== null) {
     const { copies, saved } = await layerCopiesFor(db, options.copies, projectId, annotators, signature, reading, steps, options.fresh === true);
-    options.onStored?.(saved);
+    stores.push(saved);
     const empty = annotators.filter((_, i) => !layerCopyHas(copies[i] as (typeof copies)[number], statuses));
     if (empty.length > 0) return { ok: false, message: `No layers of ${empty.join(', ')} with status ${statuses.join(' or ')}: nothing to compare.` };
     step('copies');
@@ -226,6 +227,7 @@ export async function agreementRun(
     };
   };
   if (job === null) {
+    await Promise.all(stores);
     const final = result(pending.report, false);
     if (cache !== undefined && signature !== null) await cache.save(projectId, requestKey(request), signature, final);
     return final;
@@ -239,8 +241,11 @@ export async function agreementRun(
   step(patched === null ? 'totals kept: none' : `totals patched (${patched.changed} utterances changed)`);
   const totals = patched?.totals ?? (await (options.bootstrap ?? bootstrapHere)(job, intervals));
   step('bootstrap');
-  if (options.totals !== undefined) options.onStored?.(options.totals.save(projectId, key, { rows: job.rows, layout: job.layout, seed: job.seed, totals }));
-  const final = result(agreementIntervalsAdd(pending, resampleValuesFromTotals(totals, job.layout)), false);
+  if (options.totals !== undefined) stores.push(options.totals.save(projectId, key, { rows: job.rows, layout: job.layout, seed: job.seed, totals }));
+  const report = agreementIntervalsAdd(pending, resampleValuesFromTotals(totals, job.layout));
+  await Promise.all(stores);
+  step('stored');
+  const final = result(report, false);
   if (cache !== undefined && signature !== null) await cache.save(projectId, requestKey(request), signature, final);
   return final;
 }
