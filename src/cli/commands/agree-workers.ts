@@ -63,25 +63,35 @@ export class AgreeWorkers {
   }
 
   private ask<T>(worker: Worker, request: Request): Promise<T> {
-    return new Promise<T>((resolve, reject) => {
+    return this.askAll<T>(worker, [request]).then((replies) => replies[0] as T);
+  }
+
+  /** Post all `requests` at once; the worker answers them in turn, so replies come in request order. */
+  private askAll<T>(worker: Worker, requests: readonly Request[]): Promise<T[]> {
+    if (requests.length === 0) return Promise.resolve([]);
+    return new Promise<T[]>((resolve, reject) => {
+      const replies: T[] = [];
       const onError = (error: Error): void => {
         worker.off('message', onMessage);
         reject(error);
       };
       const onMessage = (reply: T): void => {
+        replies.push(reply);
+        if (replies.length < requests.length) return;
+        worker.off('message', onMessage);
         worker.off('error', onError);
-        resolve(reply);
+        resolve(replies);
       };
-      worker.once('message', onMessage);
+      worker.on('message', onMessage);
       worker.once('error', onError);
-      worker.postMessage(request);
+      for (const request of requests) worker.postMessage(request);
     });
   }
 
   /**
    * Parse the files in parallel, replies in file order: with n helpers, file i goes to helper
-   * i mod (n + 1), or is parsed here when that is n. The helpers' requests are posted before this
-   * thread starts on its own files; then it takes tails of the helpers' files while they are
+   * i mod (n + 1), or is parsed here when that is n. All the helpers' requests are posted before
+   * this thread starts on its own files; then it takes tails of the helpers' files while they are
    * worth it (see `agreeTailsTake`).
    */
   async gather(files: readonly string[], options: LoadOptions, sizes: readonly number[]): Promise<GatherReply[]> {
@@ -92,12 +102,13 @@ export class AgreeWorkers {
     const results: AgreeJobResult[] = new Array<AgreeJobResult>(files.length);
     const helperFiles: number[] = [];
     const helping = this.workers.map(async (worker, w) => {
-      for (let i = w; i < files.length; i += lanes) {
-        results[i] = await this.ask<AgreeJobResult>(worker, { kind: 'gather', job: jobs[i] as AgreeJob, words: shared });
-      }
-    });
-    this.workers.forEach((_, w) => {
-      for (let i = w; i < files.length; i += lanes) helperFiles.push(i);
+      const mine: number[] = [];
+      for (let i = w; i < files.length; i += lanes) mine.push(i);
+      helperFiles.push(...mine);
+      const replies = await this.askAll<AgreeJobResult>(worker, mine.map((i): Request => ({ kind: 'gather', job: jobs[i] as AgreeJob, words: shared })));
+      replies.forEach((reply, r) => {
+        results[mine[r] as number] = reply;
+      });
     });
     helperFiles.sort((a, b) => a - b);
     const replies: GatherReply[] = new Array<GatherReply>(files.length);
