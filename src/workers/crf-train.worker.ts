@@ -3,8 +3,10 @@ import * as Comlink from 'comlink';
 import { modelTrainingSet } from '../db/model-repo';
 import { dbOpen, type SlotsmithDb } from '../db/schema';
 import { crfModelSummary, crfRunnerCreate, type CrfProjectTrainOutcome, type CrfProjectTrainRequest, type CrfRunProgress, type CrfTrainRequest, type TrainingSetInfo } from './crf-run';
+import { crfHelpersStart } from './crf-shard-helpers';
 
-const runner = crfRunnerCreate();
+// Training shares forward–backward with nested workers (see crf-shard-helpers.ts); the model does not depend on how many.
+const runner = crfRunnerCreate(undefined, () => crfHelpersStart());
 let db: SlotsmithDb | undefined;
 
 const api = {
