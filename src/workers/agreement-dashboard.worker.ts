@@ -5,7 +5,7 @@ import { bootstrapStoreOpen, type BootstrapStore } from '../db/bootstrap-store';
 import { layerCopyStoreOpen, type LayerCopyStore } from '../db/layer-copy-store';
 import { dbOpen, type SlotsmithDb } from '../db/schema';
 import type { AgreementBootstrapApi } from './agreement-bootstrap.worker';
-import { bootstrapParallel, type BootstrapHelper } from './agreement-parallel';
+import { bootstrapParallel, bootstrapPatchParallel, type BootstrapHelper } from './agreement-parallel';
 import type { LayerScanProgress } from './agreement-read';
 import { agreementRun, type AgreementOutcome, type AgreementProgress, type AgreementRequest, type AgreementResult } from './agreement-run';
 import { overviewRun, type OverviewRequest, type OverviewResult } from './agreement-overview';
@@ -28,6 +28,7 @@ function helpersStart(): BootstrapHelper[] {
     crashed.catch(() => undefined);
     return {
       range: (rows, layout, seed, from, to) => Promise.race([api.range(rows, layout, seed, from, to), crashed]),
+      patch: (plan, from, to) => Promise.race([api.patch(plan, from, to), crashed]),
       end: () => {
         api[Comlink.releaseProxy]();
         worker.terminate();
@@ -47,6 +48,7 @@ const api = {
     return agreementRun(db, request, (p) => void onProgress(p), {
       ...(onPoint !== undefined && { onPoint: (early: AgreementResult) => void onPoint(early) }),
       bootstrap: bootstrapParallel(helpersStart),
+      patch: bootstrapPatchParallel(helpersStart),
       cache,
       copies,
       totals,

@@ -7,7 +7,9 @@
 import {
   agreementIntervalsAdd,
   agreementPrepare,
-  bootstrapTotalsPatched,
+  bootstrapPatchPlan,
+  bootstrapPatchRange,
+  totalsAdd,
   bootstrapTotalsRange,
   resampleValuesFromTotals,
   type AgreementReport,
@@ -25,7 +27,7 @@ import { layerCopiesFor } from './layer-copies';
 import { layerCopyHas } from '../db/layer-copy';
 import type { LayerCopyStore } from '../db/layer-copy-store';
 import type { BootstrapStore } from '../db/bootstrap-store';
-import { totalsJoin } from './agreement-parallel';
+import { totalsJoin, type BootstrapPatchRunner } from './agreement-parallel';
 import { agreementOverTime, type TimePoint } from './agreement-time';
 
 export interface AgreementRequest {
@@ -125,10 +127,23 @@ export const bootstrapHere: BootstrapRunner = (job, onProgress) => {
   return Promise.resolve(totalsJoin(parts));
 };
 
+/** Kept totals patched on this thread, in steps, so progress can be reported between them. */
+export const patchHere: BootstrapPatchRunner = (plan, kept, onProgress) => {
+  const totals = kept.slice();
+  const resamples = kept.length / plan.width;
+  for (let from = 0; from < resamples; from += BOOTSTRAP_STEP) {
+    onProgress(from);
+    totalsAdd(totals, bootstrapPatchRange(plan, from, Math.min(resamples, from + BOOTSTRAP_STEP)), from, plan.width);
+  }
+  return Promise.resolve(totals);
+};
+
 export interface AgreementRunOptions {
   /** The figures without intervals, as soon as they are known (the intervals take longest). */
   onPoint?: (early: AgreementResult) => void;
   bootstrap?: BootstrapRunner;
+  /** Brings kept totals up to date (default: on this thread). */
+  patch?: BootstrapPatchRunner;
   /** Results kept from earlier runs on unchanged layers (see `agreementCacheOpen`). */
   cache?: AgreementCache<AgreementResult>;
   /** Compute from the database even when figures, layer copies or totals are kept ("Compute again"); the new ones replace them. */
@@ -237,10 +252,10 @@ export async function agreementRun(
   const key = requestKey(request);
   // "Compute again" resamples from scratch, as it reads every layer again.
   const kept = options.totals === undefined || options.fresh === true ? undefined : await options.totals.load(projectId, key);
-  const patched = kept === undefined ? null : bootstrapTotalsPatched(kept, job.rows, job.layout, job.seed, { onProgress: intervals });
-  step(patched === null ? 'totals kept: none' : `totals patched (${patched.changed} utterances changed)`);
-  const totals = patched?.totals ?? (await (options.bootstrap ?? bootstrapHere)(job, intervals));
-  step('bootstrap');
+  const plan = kept === undefined ? null : bootstrapPatchPlan(kept, job.rows, job.layout, job.seed);
+  step(plan === null ? 'totals kept: none' : `totals kept (${plan.positions.length} utterances changed)`);
+  const totals = kept !== undefined && plan !== null ? await (options.patch ?? patchHere)(plan, kept.totals, intervals) : await (options.bootstrap ?? bootstrapHere)(job, intervals);
+  step(plan === null ? 'bootstrap' : 'totals patched');
   if (options.totals !== undefined) stores.push(options.totals.save(projectId, key, { rows: job.rows, layout: job.layout, seed: job.seed, totals }));
   const report = agreementIntervalsAdd(pending, resampleValuesFromTotals(totals, job.layout));
   await Promise.all(stores);

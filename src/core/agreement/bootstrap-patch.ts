@@ -13,7 +13,7 @@ import type { TotalsLayout } from './totals';
 const MULBERRY_STEP = 0x6d2b79f5;
 
 /** Changed utterances (positions among the shared ones) and their dense row changes, `width` each. */
-interface RowChanges {
+export interface RowChanges {
   positions: Int32Array;
   deltas: Float64Array;
 }
@@ -72,27 +72,34 @@ function layoutSame(a: TotalsLayout, b: TotalsLayout): boolean {
   return a.tags === b.tags && a.intents === b.intents && a.width === b.width;
 }
 
+/** What changed since kept totals: enough to replay any range of resamples (e.g. on helper threads). */
+export interface BootstrapPatchPlan extends RowChanges {
+  /** Shared utterances (draws per resample). */
+  count: number;
+  width: number;
+  seed: number;
+}
+
 /**
- * The totals of every resample of `before` for the rows `rows`, when they differ from `before.rows`
- * only in some utterances' rows: same seed, same layout, same number of shared utterances (the draws
- * depend on it), and at most `maxChanged` changed utterances. Null when that does not hold: resample
- * from scratch then. `onProgress` gets the resamples done, every `step`.
+ * The plan to bring `before`'s totals to the rows `rows`, when they differ from `before.rows` only
+ * in some utterances' rows: same seed, same layout, same number of shared utterances (the draws
+ * depend on it), and at most `maxChanged` changed utterances (default: a sixteenth). Null when that
+ * does not hold: resample from scratch then.
  */
-export function bootstrapTotalsPatched(
-  before: BootstrapTotals,
-  rows: UtteranceRows,
-  layout: TotalsLayout,
-  seed: number,
-  options: { maxChanged?: number; onProgress?: (done: number) => void; step?: number } = {},
-): { totals: Float64Array; changed: number } | null {
+export function bootstrapPatchPlan(before: BootstrapTotals, rows: UtteranceRows, layout: TotalsLayout, seed: number, maxChanged?: number): BootstrapPatchPlan | null {
   const count = rows.patternOf.length;
   const width = layout.width;
   if (before.seed !== seed || !layoutSame(before.layout, layout) || before.rows.patternOf.length !== count || width === 0) return null;
-  const { positions, deltas } = rowChanges(before.rows, rows, width);
-  if (positions.length > (options.maxChanged ?? Math.max(64, count >> 4))) return null;
-  const totals = before.totals.slice();
-  const resamples = totals.length / width;
-  if (positions.length === 0) return { totals, changed: 0 };
+  const changes = rowChanges(before.rows, rows, width);
+  if (changes.positions.length > (maxChanged ?? Math.max(64, count >> 4))) return null;
+  return { ...changes, count, width, seed };
+}
+
+/** How the totals of resamples [from, to) change under `plan` (`width` per resample; add them to the kept ones). */
+export function bootstrapPatchRange(plan: BootstrapPatchPlan, from: number, to: number): Float64Array {
+  const { positions, deltas, count, width, seed } = plan;
+  const out = new Float64Array(Math.max(0, to - from) * width);
+  if (positions.length === 0) return out;
   // One bit per position (a few KB, stays in cache): the draws only test it; hits look up the change.
   const marked = new Int32Array((count >> 5) + 1);
   const changeOf = new Map<number, number>();
@@ -100,11 +107,28 @@ export function bootstrapTotalsPatched(
     marked[u >> 5]! |= 1 << (u & 31);
     changeOf.set(u, i * width);
   });
-  const step = options.step ?? 100;
-  let state = bootstrapStateAt(seed, count, 0);
-  for (let r = 0; r < resamples; r++) {
-    if (r % step === 0) options.onProgress?.(r);
-    state = drawsReplay(count, state, marked, changeOf, deltas, totals, r * width, width);
-  }
-  return { totals, changed: positions.length };
+  let state = bootstrapStateAt(seed, count, from);
+  for (let r = from; r < to; r++) state = drawsReplay(count, state, marked, changeOf, deltas, out, (r - from) * width, width);
+  return out;
+}
+
+/** `kept` plus `change` (both `width` per resample), the change's range starting at resample `from`. */
+export function totalsAdd(kept: Float64Array, change: Float64Array, from: number, width: number): void {
+  const base = from * width;
+  for (let i = 0; i < change.length; i++) kept[base + i]! += change[i] as number;
+}
+
+/** The totals of every resample of `before` for the rows `rows` (see `bootstrapPatchPlan`; null when it refuses), on this thread. */
+export function bootstrapTotalsPatched(
+  before: BootstrapTotals,
+  rows: UtteranceRows,
+  layout: TotalsLayout,
+  seed: number,
+  options: { maxChanged?: number } = {},
+): { totals: Float64Array; changed: number } | null {
+  const plan = bootstrapPatchPlan(before, rows, layout, seed, options.maxChanged);
+  if (plan === null) return null;
+  const totals = before.totals.slice();
+  totalsAdd(totals, bootstrapPatchRange(plan, 0, totals.length / plan.width), 0, plan.width);
+  return { totals, changed: plan.positions.length };
 }

@@ -1,6 +1,6 @@
 export { alignBuilder, layerDataAlign, layersAlign, type AlignBuilder } from './align';
 export { AlignLayerGatherer, type AlignLayerData } from './align-layer';
-export { bootstrapTotalsPatched, type BootstrapTotals } from './bootstrap-patch';
+export { bootstrapPatchPlan, bootstrapPatchRange, bootstrapTotalsPatched, totalsAdd, type BootstrapPatchPlan, type BootstrapTotals } from './bootstrap-patch';
 export {
   bootstrapRange,
   bootstrapTotalsRange,
