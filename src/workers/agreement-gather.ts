@@ -135,14 +135,13 @@ export function gatheredFromCopy(copy: LayerCopy, statuses: readonly LayerStatus
   const tagCounts = new Int32Array(count);
   const tags = new Int32Array(tokens);
   const intents = new Int32Array(count);
-  const counted: Partial<Record<LayerStatus, number>> = {};
+  const byCode = new Int32Array(LAYER_STATUSES.length + 1);
   let u = 0;
   let at = 0;
   for (let k = 0; k < n; k++) {
     const status = copy.status[k] as number;
     if (wanted[status] !== 1) continue;
-    const s = LAYER_STATUSES[status - 1] as LayerStatus;
-    counted[s] = (counted[s] ?? 0) + 1;
+    byCode[status]! += 1;
     const id = copy.utteranceIds[k] as number;
     ids[u] = String(id);
     utteranceIds[u] = id;
@@ -175,6 +174,11 @@ export function gatheredFromCopy(copy: LayerCopy, statuses: readonly LayerStatus
     tagCounts[u] = to - from;
     tokenStart[++u] = at;
   }
+  // Keys in status order (the row-by-row gatherer adds them as first seen): the same counts either way.
+  const counted: Partial<Record<LayerStatus, number>> = {};
+  LAYER_STATUSES.forEach((s, i) => {
+    if ((byCode[i + 1] as number) > 0) counted[s] = byCode[i + 1] as number;
+  });
   const data: AlignLayerData = {
     name: copy.annotator,
     count,
