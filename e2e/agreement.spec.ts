@@ -148,3 +148,61 @@ test('the overview shows the demo’s distribution and progress', async ({ page,
   await expect(page.getByText(/Counted 1,200 layers with status done of ann-b/)).toBeVisible({ timeout: SLOW });
   expect(foreign).toEqual([]);
 });
+
+test('after a label edit the figures come from patched layer copies and totals, and equal a full recomputation', async ({ page }) => {
+  test.setTimeout(180_000);
+  await demoOpen(page);
+  const screens = page.getByRole('navigation', { name: 'Screens' });
+  await screens.getByRole('button', { name: 'Agreement' }).click();
+  const compared = page.getByTestId('agreement-compared');
+  await expect(compared).toHaveAttribute('data-pending', 'false', { timeout: SLOW });
+  const before = await page.getByTestId('figure-kappa-tag').textContent();
+  // The top disagreement's utterance (its database id from the resolver's address).
+  const list = page.getByRole('list', { name: 'Disagreeing utterances' });
+  await list.getByRole('listitem').first().getByRole('button').first().click();
+  await expect(page).toHaveURL(/&u=\d+$/);
+  const utteranceId = Number(/&u=(\d+)$/.exec(page.url())?.[1]);
+  // ann-b's layer there becomes all O, written as the label screen writes (layer and history row in one transaction).
+  await page.evaluate(async (utteranceId) => {
+    const db = await new Promise<IDBDatabase>((resolve, reject) => {
+      const open = indexedDB.open('slotsmith');
+      open.onsuccess = () => resolve(open.result);
+      open.onerror = () => reject(open.error);
+    });
+    const tx = db.transaction(['layers', 'history'], 'readwrite');
+    const get = tx.objectStore('layers').get([utteranceId, 'ann-b']);
+    get.onsuccess = () => {
+      const row = get.result as { projectId: number; tags: string[]; intent: string | null; status: string; note: string; revision: number; updated: number };
+      const next = { ...row, tags: row.tags.map(() => 'O'), revision: row.revision + 1, updated: Date.now() };
+      tx.objectStore('layers').put(next);
+      const before = { tags: row.tags, intent: row.intent, status: row.status, note: row.note, revision: row.revision, updated: row.updated };
+      const after = { tags: next.tags, intent: next.intent, status: next.status, note: next.note, revision: next.revision, updated: next.updated };
+      tx.objectStore('history').add({ projectId: row.projectId, utteranceId, annotator: 'ann-b', before, after, who: 'ann-b', when: next.updated });
+    };
+    await new Promise((resolve, reject) => {
+      tx.oncomplete = resolve;
+      tx.onerror = () => reject(tx.error);
+    });
+    db.close();
+  }, utteranceId);
+  await screens.getByRole('button', { name: 'Agreement' }).click();
+  await expect(compared).toHaveAttribute('data-pending', 'false', { timeout: SLOW });
+  await expect(compared).toHaveAttribute('data-kept', 'false');
+  // Taken from the kept copies (patched, not read again) and the kept totals (one utterance changed).
+  const steps = (await compared.getAttribute('data-steps')) ?? '';
+  expect(steps).toContain('copies patch');
+  expect(steps).not.toContain('copies read');
+  expect(steps).toContain('totals kept (1 utterances changed)');
+  const figures = async () => ({
+    tag: await page.getByTestId('figure-kappa-tag').textContent(),
+    slot: await page.getByTestId('figure-kappa-slot').textContent(),
+    rows: await page.getByRole('row', { name: /Token kappa|Span F1|Intent kappa/ }).allTextContents(),
+  });
+  const patched = await figures();
+  expect(patched.tag).not.toBe(before);
+  // "Compute again" reads every layer and resamples from scratch: the same figures and intervals.
+  await page.getByRole('button', { name: 'Compute again' }).click();
+  await expect(compared).toHaveAttribute('data-pending', 'false', { timeout: SLOW });
+  expect(await compared.getAttribute('data-steps')).toContain('copies read');
+  expect(await figures()).toEqual(patched);
+});
