@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { agreeJobAssemble, agreeJobRun, agreeJobsPlan, agreeTailsTake, type AgreeJob } from '../../src/cli/commands/agree-jobs';
+import { agreeJobAssemble, agreeJobRun, agreeJobsPlan, agreeTailsTake, agreeWordPack, agreeWordsCreate, type AgreeJob } from '../../src/cli/commands/agree-jobs';
 import { layerLoad } from '../../src/cli/layer-load';
 import { boundaryFind, pieceRead } from '../../src/cli/layer-pieces';
 import { repoRoot } from './run-cli';
@@ -73,14 +73,14 @@ describe('a helper file whose tail the main thread takes', () => {
     const size = readFileSync(file).length;
     const jobs = agreeJobsPlan([file], [size], {});
     expect(jobs[0]?.kind).toBe('columns');
-    const words = new Int32Array(new SharedArrayBuffer(4));
+    const words = agreeWordsCreate(jobs);
     // The helper has not started: the tail is the second half, cut between utterances.
     const tails = agreeTailsTake(jobs, [0], words);
     expect(tails).toHaveLength(1);
     const start = tails[0]?.start ?? 0;
     expect(start).toBeGreaterThan(size / 2 - 1);
     expect(readFileSync(file).subarray(start - 2, start).toString()).toBe('\n\n');
-    expect(words[0]).toBe(-(start + 1));
+    expect(words[0]).toBe(agreeWordPack(0, start));
     // The helper then reads up to the cut and no further.
     const result = agreeJobRun(jobs[0] as AgreeJob, words);
     expect(result.kind === 'columns' && result.read?.end).toBe(start);
@@ -93,14 +93,35 @@ describe('a helper file whose tail the main thread takes', () => {
     expect(joined).toEqual(whole);
   });
 
+  it('takes tail after tail from a helper that has not got far, and they join into the one-thread layer', () => {
+    const [file] = bigPair(30);
+    const size = readFileSync(file).length;
+    const jobs = agreeJobsPlan([file], [size], {});
+    const words = agreeWordsCreate(jobs);
+    // The helper has claimed its first chunk only.
+    words[0] = agreeWordPack(1 << 20, size);
+    const tails = agreeTailsTake(jobs, [0], words);
+    expect(tails.length).toBeGreaterThan(1);
+    // Each tail halves what was left: later ones start earlier, and each ends where the one before starts.
+    tails.forEach((tail, i) => {
+      expect(tail.read?.errors).toEqual([]);
+      expect(tail.read?.end).toBe(i === 0 ? size : tails[i - 1]?.start);
+    });
+    words[0] = agreeWordPack(0, tails[tails.length - 1]?.start ?? 0);
+    const result = agreeJobRun(jobs[0] as AgreeJob, words);
+    const whole = layerLoad(file, {}, size);
+    expect(whole.ok && whole.errors).toEqual([]);
+    expect(agreeJobAssemble(jobs[0] as AgreeJob, result, tails, {})).toEqual(whole);
+  });
+
   it('takes nothing from a helper that has claimed all but a small rest', () => {
     const [file] = bigPair(10);
     const size = readFileSync(file).length;
     const jobs = agreeJobsPlan([file], [size], {});
-    const words = new Int32Array(new SharedArrayBuffer(4));
-    words[0] = size - (1 << 20);
+    const words = agreeWordsCreate(jobs);
+    words[0] = agreeWordPack(size - (1 << 20), size);
     expect(agreeTailsTake(jobs, [0], words)).toEqual([]);
-    expect(words[0]).toBe(size - (1 << 20));
+    expect(words[0]).toBe(agreeWordPack(size - (1 << 20), size));
   });
 
   it('reports a file with errors in any part exactly as a one-thread read does', () => {
@@ -112,7 +133,7 @@ describe('a helper file whose tail the main thread takes', () => {
     });
     const size = readFileSync(file).length;
     const jobs = agreeJobsPlan([file], [size], {});
-    const words = new Int32Array(new SharedArrayBuffer(4));
+    const words = agreeWordsCreate(jobs);
     const tails = agreeTailsTake(jobs, [0], words);
     const result = agreeJobRun(jobs[0] as AgreeJob, words);
     const whole = layerLoad(file, {}, size);
@@ -125,7 +146,7 @@ describe('a helper file whose tail the main thread takes', () => {
     const size = readFileSync(file).length;
     const jobs = agreeJobsPlan([file], [size], {});
     expect(jobs[0]?.kind).toBe('whole');
-    const words = new Int32Array(new SharedArrayBuffer(4));
+    const words = agreeWordsCreate(jobs);
     expect(agreeTailsTake(jobs, [0], words)).toEqual([]);
     expect(agreeJobAssemble(jobs[0] as AgreeJob, agreeJobRun(jobs[0] as AgreeJob, words), [], {})).toEqual(layerLoad(file, {}, size));
   });

@@ -8,13 +8,15 @@ import { formatChoose, type LoadOptions } from '../load';
 
 /**
  * How `agree` shares the parsing between threads. Each file goes to one thread; once the main
- * thread has read its own, it takes the unread second half of a helper's column file (cut
- * between utterances), so a helper that started late, or has the bigger file, does not keep it
- * waiting. The helper's share and the taken tail join into exactly the layer of a one-thread read.
+ * thread has read its own, it takes the second half of what a helper has not yet read of a column
+ * file (cut between utterances), and again while a tail worth taking is left, so a helper that
+ * started late, or runs slowly on a busy machine, does not keep it waiting. The helper's share and
+ * the taken tails join into exactly the layer of a one-thread read.
  *
- * The hand-over is one shared word per file: while open, how far the helper has claimed the file
- * (it claims a chunk before reading it); once the main thread has taken the tail from byte b,
- * -(b + 1). Both sides change it only by compare-and-swap, so the helper never reads past b.
+ * The hand-over is one shared 64-bit word per file: how far the helper has claimed the file (it
+ * claims a chunk before reading it) and where its share ends (the file's end, or where the main
+ * thread's last tail starts). Both sides change it only by compare-and-swap, so the helper never
+ * reads past its end and the main thread never takes what the helper has claimed.
  */
 export type AgreeJob =
   | { kind: 'columns'; file: number; path: string; bytes: number; scheme: Scheme | undefined }
@@ -26,7 +28,7 @@ export type AgreeJobResult = { kind: 'columns'; read: PieceRead | null } | { kin
 const CLAIM_BYTES = 1 << 20;
 const TAIL_MIN_BYTES = 2 << 20;
 const HEAD_BYTES = 1 << 20;
-/** Shared words are 32-bit: bigger files are not split. */
+/** Each half of a shared word is 32-bit: bigger files are not split. */
 const SPLIT_MAX_BYTES = 0x7ffffffe;
 
 /** The file's first bytes, as `documentLoad` sees them for format detection (empty when unreadable). */
@@ -59,21 +61,39 @@ export function agreeJobsPlan(files: readonly string[], sizes: readonly number[]
   });
 }
 
+/** A shared word: the helper's claimed bytes and the end of its share. */
+export function agreeWordPack(claimed: number, end: number): bigint {
+  return (BigInt(end) << 32n) | BigInt(claimed);
+}
+
+function wordClaimed(word: bigint): number {
+  return Number(word & 0xffffffffn);
+}
+
+function wordEnd(word: bigint): number {
+  return Number(word >> 32n);
+}
+
+/** The shared words for `jobs`: nothing claimed, each share up to its file's end. */
+export function agreeWordsCreate(jobs: readonly AgreeJob[]): BigInt64Array {
+  const words = new BigInt64Array(new SharedArrayBuffer(8 * Math.max(1, jobs.length)));
+  for (const job of jobs) if (job.kind === 'columns') words[job.file] = agreeWordPack(0, job.bytes);
+  return words;
+}
+
 /** Run a job on a helper: a column file is read chunk by chunk as claimed in `words[job.file]`, up to where the main thread took the tail. */
-export function agreeJobRun(job: AgreeJob, words: Int32Array): AgreeJobResult {
+export function agreeJobRun(job: AgreeJob, words: BigInt64Array): AgreeJobResult {
   if (job.kind === 'whole') return { kind: 'whole', loaded: layerLoad(job.path, job.options, job.bytes) };
-  const size = job.bytes;
   const next = (position: number): number => {
     for (;;) {
       const word = Atomics.load(words, job.file);
-      if (word < 0) return Math.min(position + CLAIM_BYTES, Math.max(position, -(word + 1)));
-      const end = Math.min(position + CLAIM_BYTES, size);
+      const end = Math.min(position + CLAIM_BYTES, wordEnd(word));
       if (end <= position) return position;
-      if (Atomics.compareExchange(words, job.file, word, end) === word) return end;
+      if (Atomics.compareExchange(words, job.file, word, agreeWordPack(end, wordEnd(word))) === word) return end;
     }
   };
   try {
-    return { kind: 'columns', read: pieceRead(job.path, 0, job.scheme, size, next) };
+    return { kind: 'columns', read: pieceRead(job.path, 0, job.scheme, job.bytes, next) };
   } catch {
     // Unreadable now though it was readable a moment ago: the whole-file read reports it.
     return { kind: 'columns', read: null };
@@ -91,7 +111,7 @@ export interface TailRead {
  * yet claimed of one of its column files (the last such file first), read it here, and repeat
  * while a tail worth taking is left. Returns the tails read.
  */
-export function agreeTailsTake(jobs: readonly AgreeJob[], helperFiles: readonly number[], words: Int32Array): TailRead[] {
+export function agreeTailsTake(jobs: readonly AgreeJob[], helperFiles: readonly number[], words: BigInt64Array): TailRead[] {
   const tails: TailRead[] = [];
   for (let taken = true; taken; ) {
     taken = false;
@@ -99,35 +119,39 @@ export function agreeTailsTake(jobs: readonly AgreeJob[], helperFiles: readonly 
       const job = jobs[helperFiles[j] as number];
       if (job?.kind !== 'columns') continue;
       const tail = tailClaim(job, words);
-      if (tail < 0) continue;
+      if (tail === null) continue;
+      const [start, end] = tail;
       let read: PieceRead | null;
       try {
-        read = pieceRead(job.path, tail, job.scheme, job.bytes - tail, (position) => Math.min(position + CLAIM_BYTES, job.bytes));
+        read = pieceRead(job.path, start, job.scheme, end - start, (position) => Math.min(position + CLAIM_BYTES, end));
       } catch {
         read = null;
       }
-      tails.push({ file: job.file, start: tail, read });
+      tails.push({ file: job.file, start, read });
       taken = true;
     }
   }
   return tails;
 }
 
-/** Close the helper's file at a boundary halfway through its unclaimed part; that boundary, or -1. */
-function tailClaim(job: Extract<AgreeJob, { kind: 'columns' }>, words: Int32Array): number {
+/** End the helper's share at a boundary halfway through its unclaimed part: the tail taken, or null. */
+function tailClaim(job: Extract<AgreeJob, { kind: 'columns' }>, words: BigInt64Array): [number, number] | null {
   let fd: number;
   try {
     fd = openSync(job.path, 'r');
   } catch {
-    return -1;
+    return null;
   }
   try {
     for (;;) {
-      const claimed = Atomics.load(words, job.file);
-      if (claimed < 0 || job.bytes - claimed < TAIL_MIN_BYTES) return -1;
-      const at = boundaryFind(fd, claimed + Math.floor((job.bytes - claimed) / 2), job.bytes);
-      if (at >= job.bytes) return -1;
-      if (Atomics.compareExchange(words, job.file, claimed, -(at + 1)) === claimed) return at;
+      const word = Atomics.load(words, job.file);
+      const claimed = wordClaimed(word);
+      const end = wordEnd(word);
+      if (end - claimed < TAIL_MIN_BYTES) return null;
+      // A boundary before `end`: the bytes from `end` on are already another tail's.
+      const at = boundaryFind(fd, claimed + Math.floor((end - claimed) / 2), end);
+      if (at >= end) return null;
+      if (Atomics.compareExchange(words, job.file, word, agreeWordPack(claimed, at)) === word) return [at, end];
     }
   } finally {
     closeSync(fd);

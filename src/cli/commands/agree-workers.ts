@@ -4,7 +4,7 @@ import { bootstrapRange, type BootstrapJob, type ResampleValues } from '../../co
 import type { LayerLoaded } from '../layer-load';
 import type { LoadOptions } from '../load';
 import { layerLoad } from '../layer-load';
-import { agreeJobAssemble, agreeJobBuffers, agreeJobRun, agreeJobsPlan, agreeTailsTake, type AgreeJob, type AgreeJobResult } from './agree-jobs';
+import { agreeJobAssemble, agreeJobBuffers, agreeJobRun, agreeJobsPlan, agreeTailsTake, agreeWordsCreate, type AgreeJob, type AgreeJobResult } from './agree-jobs';
 
 /**
  * Helper threads for `agree`: each parses files into alignment data (the main thread may take the
@@ -19,13 +19,13 @@ const WORKER_MARK = 'slotsmith-agree-worker';
 export type GatherReply = LayerLoaded;
 
 type Request =
-  | { kind: 'gather'; job: AgreeJob; words: SharedArrayBuffer }
+  | { kind: 'gather'; job: AgreeJob; words: BigInt64Array }
   | { kind: 'bootstrap'; job: BootstrapJob; from: number; to: number };
 
 if (!isMainThread && (workerData as { mark?: string } | null)?.mark === WORKER_MARK) {
   parentPort?.on('message', (request: Request) => {
     if (request.kind === 'gather') {
-      const result = agreeJobRun(request.job, new Int32Array(request.words));
+      const result = agreeJobRun(request.job, request.words);
       parentPort?.postMessage(result, agreeJobBuffers(result));
     } else {
       const { job, from, to } = request;
@@ -97,15 +97,14 @@ export class AgreeWorkers {
   async gather(files: readonly string[], options: LoadOptions, sizes: readonly number[]): Promise<GatherReply[]> {
     const lanes = this.workers.length + 1;
     const jobs = agreeJobsPlan(files, sizes, options);
-    const shared = new SharedArrayBuffer(4 * Math.max(1, files.length));
-    const words = new Int32Array(shared);
+    const words = agreeWordsCreate(jobs);
     const results: AgreeJobResult[] = new Array<AgreeJobResult>(files.length);
     const helperFiles: number[] = [];
     const helping = this.workers.map(async (worker, w) => {
       const mine: number[] = [];
       for (let i = w; i < files.length; i += lanes) mine.push(i);
       helperFiles.push(...mine);
-      const replies = await this.askAll<AgreeJobResult>(worker, mine.map((i): Request => ({ kind: 'gather', job: jobs[i] as AgreeJob, words: shared })));
+      const replies = await this.askAll<AgreeJobResult>(worker, mine.map((i): Request => ({ kind: 'gather', job: jobs[i] as AgreeJob, words })));
       replies.forEach((reply, r) => {
         results[mine[r] as number] = reply;
       });
