@@ -104,6 +104,13 @@ describe('agreeThreadsChoose', () => {
     expect(agreeThreadsChoose(undefined, 1, 10 * AGREE_THREADS_FROM_BYTES)).toBe(0);
   });
 
+  it('starts none by itself when the load average already fills every CPU, but follows SLOTSMITH_WORKERS whatever the load', () => {
+    expect(agreeThreadsChoose(undefined, 2, AGREE_THREADS_FROM_BYTES, 1.9)).toBe(1);
+    expect(agreeThreadsChoose(undefined, 2, AGREE_THREADS_FROM_BYTES, 2)).toBe(0);
+    expect(agreeThreadsChoose(undefined, 16, AGREE_THREADS_FROM_BYTES, 15)).toBe(3);
+    expect(agreeThreadsChoose('1', 2, AGREE_THREADS_FROM_BYTES, 6)).toBe(1);
+  });
+
   it('follows SLOTSMITH_WORKERS when set, within twice the CPUs; anything but digits means none', () => {
     expect(agreeThreadsChoose('0', 8, 10 * AGREE_THREADS_FROM_BYTES)).toBe(0);
     expect(agreeThreadsChoose('3', 2, 0)).toBe(3);

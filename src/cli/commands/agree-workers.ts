@@ -1,4 +1,4 @@
-import { availableParallelism } from 'node:os';
+import { availableParallelism, loadavg } from 'node:os';
 import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
 import { bootstrapRange, type BootstrapJob, type ResampleValues } from '../../core/agreement';
 import type { LayerLoaded } from '../layer-load';
@@ -41,18 +41,21 @@ export const AGREE_THREADS_FROM_BYTES = 8 << 20;
 /**
  * Helper threads to start beside the main thread, which takes its own share of the work:
  * `asked` (SLOTSMITH_WORKERS) when set (0 = none, capped at twice the CPUs); otherwise one fewer
- * than the CPUs (at most 3) once the input reaches AGREE_THREADS_FROM_BYTES. The files then parse
- * side by side and the bootstrap resamples split between the threads; the figures do not depend on it.
+ * than the CPUs (at most 3) once the input reaches AGREE_THREADS_FROM_BYTES, unless the 1-minute
+ * `load` average is already at the CPU count: with no core free, a helper only adds its start-up
+ * and hand-over (about a third more CPU time, measured on two cores at load 5). The files then
+ * parse side by side and the bootstrap resamples split between the threads; the figures do not
+ * depend on it.
  */
-export function agreeThreadsChoose(asked: string | undefined, cpus: number, inputBytes: number): number {
+export function agreeThreadsChoose(asked: string | undefined, cpus: number, inputBytes: number, load = 0): number {
   if (asked !== undefined && asked !== '') return /^\d+$/.test(asked) ? Math.min(Number(asked), cpus * 2) : 0;
-  return cpus >= 2 && inputBytes >= AGREE_THREADS_FROM_BYTES ? Math.min(cpus, 4) - 1 : 0;
+  return cpus >= 2 && inputBytes >= AGREE_THREADS_FROM_BYTES && load < cpus ? Math.min(cpus, 4) - 1 : 0;
 }
 
 /** `agreeThreadsChoose` for this process; none when running from TypeScript sources (a worker could not load the file). */
 export function agreeWorkerCount(inputBytes: number): number {
   if (!/\.m?js$/.test(new URL(import.meta.url).pathname)) return 0;
-  return agreeThreadsChoose(process.env.SLOTSMITH_WORKERS, availableParallelism(), inputBytes);
+  return agreeThreadsChoose(process.env.SLOTSMITH_WORKERS, availableParallelism(), inputBytes, loadavg()[0] ?? 0);
 }
 
 export class AgreeWorkers {
