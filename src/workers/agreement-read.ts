@@ -103,9 +103,18 @@ export async function layersScan(
   let previous = -1;
   onProgress({ done: 0, total });
   // Pages by utterance-id span: ids of one project are mostly contiguous (imports add them in runs).
+  const pageRead = (from: number) => {
+    const read = db.layers.where('[utteranceId+annotator]').between([from, minKey], [Math.min(span.last, from + pageSize - 1), maxKey], true, true).toArray();
+    // Handled here too, so a page asked for ahead and never awaited (a visit threw) is no unhandled rejection.
+    read.catch(() => undefined);
+    return read;
+  };
+  // The next page is asked for before this one is visited: the database reads it meanwhile.
+  let next = pageRead(span.first);
   for (let from = span.first; from <= span.last; from += pageSize) {
     const to = Math.min(span.last, from + pageSize - 1);
-    const rows = await db.layers.where('[utteranceId+annotator]').between([from, minKey], [to, maxKey], true, true).toArray();
+    const rows = await next;
+    if (to < span.last) next = pageRead(to + 1);
     lap('page reads');
     for (const row of rows) {
       if (!rowChosen(row, choice)) continue;
