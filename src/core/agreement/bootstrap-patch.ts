@@ -60,6 +60,45 @@ function drawsReplay(count: number, state: number, marked: Int32Array, changeOf:
   return s;
 }
 
+/** The draw `drawsReplay` maps a 32-bit output to (the bootstrap's own floating-point scaling). */
+function drawOf(x: number, count: number): number {
+  return ((x * count) / 4294967296) | 0;
+}
+
+/** The first 32-bit output that draws `u` or later: the scaling is monotonic, so a binary search finds it exactly. */
+function outputFirst(u: number, count: number): number {
+  let low = 0;
+  let high = 4294967296;
+  while (low < high) {
+    const mid = Math.floor((low + high) / 2);
+    if (drawOf(mid, count) >= u) high = mid;
+    else low = mid + 1;
+  }
+  return low;
+}
+
+/**
+ * `drawsReplay` for one changed utterance: the outputs that draw it form one range [low, high), so a
+ * draw is two comparisons on the generator's output, without scaling it or reading memory.
+ */
+function drawsReplayOne(count: number, state: number, low: number, high: number, deltas: Float64Array, totals: Float64Array, base: number, width: number): number {
+  let s = state;
+  let hits = 0;
+  // Compared as signed ints (x − 2^31 keeps the order and stays a small integer for the JIT).
+  const lowSigned = low - 2147483648;
+  const highSigned = high - 2147483648;
+  for (let i = 0; i < count; i++) {
+    s = (s + MULBERRY_STEP) | 0;
+    let t = s;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    const x = (t ^ (t >>> 14) ^ 0x80000000) | 0;
+    if (x >= lowSigned && x < highSigned) hits++;
+  }
+  if (hits > 0) for (let j = 0; j < width; j++) totals[base + j]! += hits * (deltas[j] as number);
+  return s;
+}
+
 export interface BootstrapTotals {
   rows: UtteranceRows;
   layout: TotalsLayout;
@@ -108,6 +147,13 @@ export function bootstrapPatchRange(plan: BootstrapPatchPlan, from: number, to: 
     changeOf.set(u, i * width);
   });
   let state = bootstrapStateAt(seed, count, from);
+  if (positions.length === 1) {
+    const u = positions[0] as number;
+    const low = outputFirst(u, count);
+    const high = outputFirst(u + 1, count);
+    for (let r = from; r < to; r++) state = drawsReplayOne(count, state, low, high, deltas, out, (r - from) * width, width);
+    return out;
+  }
   for (let r = from; r < to; r++) state = drawsReplay(count, state, marked, changeOf, deltas, out, (r - from) * width, width);
   return out;
 }

@@ -1,6 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { agreementPrepare, bootstrapTotalsPatched, bootstrapTotalsRange, layersAlign, type AlignedCorpus, type AlignLayer } from '../../../src/core/agreement';
+import { totalsLayout } from '../../../src/core/agreement/totals';
 import { corpusArb, SLOTS } from './arbitraries';
 
 function aligned(layers: readonly AlignLayer[]): AlignedCorpus {
@@ -69,5 +70,44 @@ describe('bootstrapTotalsPatched', () => {
     const many = jobOf(edited(layers, Array.from({ length: 200 }, (_, i) => i), 0), 20, 7);
     expect(many.layout).toEqual(job.layout);
     expect(bootstrapTotalsPatched(kept, many.rows, many.layout, 7, { maxChanged: 0 })).toBeNull();
+  });
+
+  it('one changed utterance (the two-comparison replay), at either end of the shared ones, equals resampling from scratch', () => {
+    const layers = fc.sample(corpusArb({ min: 2, max: 2 }, 0), { seed: 11, numRuns: 1 })[0] ?? [];
+    const count = layers[1]?.utterances.length ?? 0;
+    const before = jobOf(layers, 30, 3);
+    const kept = { rows: before.rows, layout: before.layout, seed: 3, totals: bootstrapTotalsRange(before.rows, before.layout, 3, 0, 30) };
+    let checked = 0;
+    for (const pick of [0, count - 1, count >> 1]) {
+      for (const slot of [0, 1]) {
+        const after = jobOf(edited(layers, [pick], slot), 30, 3);
+        const patched = bootstrapTotalsPatched(kept, after.rows, after.layout, 3);
+        if (patched === null || patched.changed !== 1) continue;
+        expect(patched.totals).toEqual(bootstrapTotalsRange(after.rows, after.layout, 3, 0, 30));
+        checked++;
+      }
+    }
+    expect(checked).toBeGreaterThanOrEqual(3);
+  });
+
+  it('the last and the first utterance (outputs up to 2^32 and from 0) patch exactly, on hand-made rows', () => {
+    const layout = totalsLayout(2, 0);
+    // Utterance u has one entry: total (u mod width) += 1 + (u mod 3).
+    const rowsOf = (values: number[]) => ({
+      patternOf: Int32Array.from(values.keys()),
+      rowStart: Int32Array.from({ length: values.length + 1 }, (_, i) => i),
+      index: Int32Array.from(values.map((_, u) => u % layout.width)),
+      value: Int32Array.from(values),
+    });
+    const base = Array.from({ length: 997 }, (_, u) => 1 + (u % 3));
+    const kept = { rows: rowsOf(base), layout, seed: 99, totals: bootstrapTotalsRange(rowsOf(base), layout, 99, 0, 50) };
+    for (const u of [0, base.length - 1]) {
+      const after = rowsOf(base.map((v, i) => (i === u ? v + 5 : v)));
+      const patched = bootstrapTotalsPatched(kept, after, layout, 99);
+      expect(patched?.changed).toBe(1);
+      expect(patched?.totals).toEqual(bootstrapTotalsRange(after, layout, 99, 0, 50));
+      // Drawn at least once somewhere in 50 resamples of 997 draws, so the check has teeth.
+      expect(patched?.totals).not.toEqual(kept.totals);
+    }
   });
 });
