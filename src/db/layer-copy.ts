@@ -93,11 +93,16 @@ export class LayerCopyBuilder {
   private lastTag: string | undefined;
   private lastCode = 0;
 
-  /** `tables`: start from a copy's name tables, so its codes can be carried over unchanged. */
+  /**
+   * `tables`: start from a copy's name tables, so its codes can be carried over unchanged.
+   * `anyOrder`: take rows in any order (an import's attached layers); the copy must then go through
+   * layerCopyMerged, which orders it, before anything reads it.
+   */
   constructor(
     readonly projectId: number,
     readonly annotator: string,
     tables: { intents: readonly string[]; tagNames: readonly string[] } = { intents: [], tagNames: [] },
+    private readonly anyOrder = false,
   ) {
     this.intentNames = new Names(tables.intents);
     this.tagNames = new Names(tables.tagNames);
@@ -109,7 +114,7 @@ export class LayerCopyBuilder {
   }
 
   rowAdd(row: Pick<LayerRow, 'utteranceId' | 'tags' | 'intent' | 'status' | 'updated'>): void {
-    if (row.utteranceId <= this.last()) throw new Error(`Layer copy: utterance ${row.utteranceId} came after ${this.last()}; rows must come in ascending utterance id.`);
+    if (!this.anyOrder && row.utteranceId <= this.last()) throw new Error(`Layer copy: utterance ${row.utteranceId} came after ${this.last()}; rows must come in ascending utterance id.`);
     this.ids.push(row.utteranceId);
     this.status.push(CODE_OF_STATUS.get(row.status) ?? 0);
     this.updated.push(row.updated);
@@ -144,6 +149,35 @@ export class LayerCopyBuilder {
     this.tags.data.set(copy.tags.subarray(from, to), this.tags.length);
     this.tags.length += to - from;
     this.tagStart.push(this.tags.length);
+  }
+
+  /** Layer k of `copy` with its codes carried into this builder's tables (any tables). */
+  recodedAdd(copy: LayerCopy, k: number, intentCodes: Int32Array, tagCodes: Int32Array): void {
+    const id = copy.utteranceIds[k] as number;
+    if (id <= this.last()) throw new Error(`Layer copy: utterance ${id} came after ${this.last()}; rows must come in ascending utterance id.`);
+    this.ids.push(id);
+    this.status.push(copy.status[k] as number);
+    this.updated.push(copy.updated[k] as number);
+    const intent = copy.intent[k] as number;
+    this.intent.push(intent === 0 ? 0 : (intentCodes[intent - 1] as number) + 1);
+    const from = copy.tagStart[k] as number;
+    const to = copy.tagStart[k + 1] as number;
+    this.tags.reserve(to - from);
+    const out = this.tags.data;
+    let at = this.tags.length;
+    for (let t = from; t < to; t++) out[at++] = tagCodes[copy.tags[t] as number] as number;
+    this.tags.length = at;
+    this.tagStart.push(at);
+  }
+
+  /** This builder's code for an intent name (added to its table when new). */
+  intentCode(name: string): number {
+    return this.intentNames.code(name);
+  }
+
+  /** This builder's code for a tag (added to its table when new). */
+  tagCode(name: string): number {
+    return this.tagNames.code(name);
   }
 
   done(signature: CorpusSignature): LayerCopy {
@@ -181,6 +215,50 @@ export function layerCopyPatched(copy: LayerCopy, touched: ReadonlySet<number>, 
     builder.rowAdd(row);
   }
   for (; k < n; k++) if (!touched.has(copy.utteranceIds[k] as number)) builder.copiedAdd(copy, k);
+  return builder.done(signature);
+}
+
+/**
+ * `base` (null: no layers yet) with the layers of `added` (in any order, one per utterance) put in:
+ * an added layer replaces base's layer on the same utterance. Base keeps its codes; names new to it
+ * are appended to its tables in the order the merge meets them (so with no base, the tables are a
+ * read in utterance order's).
+ */
+export function layerCopyMerged(base: LayerCopy | null, added: LayerCopy, signature: CorpusSignature): LayerCopy {
+  const n = added.utteranceIds.length;
+  const order = new Int32Array(n);
+  for (let k = 0; k < n; k++) order[k] = k;
+  let ascending = true;
+  for (let k = 1; k < n && ascending; k++) if ((added.utteranceIds[k] as number) <= (added.utteranceIds[k - 1] as number)) ascending = false;
+  if (!ascending) order.sort((x, y) => (added.utteranceIds[x] as number) - (added.utteranceIds[y] as number));
+  for (let k = 1; k < n; k++) {
+    if (added.utteranceIds[order[k] as number] === added.utteranceIds[order[k - 1] as number]) throw new Error(`Layer copy: utterance ${added.utteranceIds[order[k] as number]} was added twice.`);
+  }
+  const builder = new LayerCopyBuilder(added.projectId, added.annotator, base ?? { intents: [], tagNames: [] });
+  // Names are coded lazily, in utterance order, so an empty base gives the tables a fresh read gives.
+  const intentCodes = new Int32Array(added.intents.length).fill(-1);
+  const tagCodes = new Int32Array(added.tagNames.length).fill(-1);
+  const addedPut = (k: number) => {
+    const intent = added.intent[k] as number;
+    if (intent !== 0 && intentCodes[intent - 1] === -1) intentCodes[intent - 1] = builder.intentCode(added.intents[intent - 1] as string);
+    for (let t = added.tagStart[k] as number; t < (added.tagStart[k + 1] as number); t++) {
+      const c = added.tags[t] as number;
+      if (tagCodes[c] === -1) tagCodes[c] = builder.tagCode(added.tagNames[c] as string);
+    }
+    builder.recodedAdd(added, k, intentCodes, tagCodes);
+  };
+  const m = base?.utteranceIds.length ?? 0;
+  let b = 0;
+  for (let i = 0; i < n; i++) {
+    const k = order[i] as number;
+    const id = added.utteranceIds[k] as number;
+    if (base !== null) {
+      while (b < m && (base.utteranceIds[b] as number) < id) builder.copiedAdd(base, b++);
+      if (b < m && base.utteranceIds[b] === id) b++;
+    }
+    addedPut(k);
+  }
+  if (base !== null) while (b < m) builder.copiedAdd(base, b++);
   return builder.done(signature);
 }
 

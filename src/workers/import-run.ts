@@ -22,6 +22,8 @@ import {
 } from '../db';
 import { CorpusIndexImport } from '../db/corpus-index-import';
 import type { CorpusIndexStore } from '../db/corpus-index-store';
+import { LayerCopyImport } from '../db/layer-copy-import';
+import type { LayerCopyStore } from '../db/layer-copy-store';
 import { PreviewCollector, type ImportPreview } from './import-preview';
 import { fileStreamRead, formatHasLabels, ImportCancelledError, importReaderCreate, type ImportFileOptions } from './import-read';
 
@@ -55,6 +57,8 @@ export interface ImportControl {
   lock?: <T>(name: string, work: () => Promise<T>) => Promise<T>;
   /** Where the utterance table's index made during an import into an empty project is saved (none: not made). */
   indexStore?: CorpusIndexStore;
+  /** Where the layer copies made or signed again by the import are saved (none: not made). */
+  copyStore?: LayerCopyStore;
 }
 
 export interface ImportSummary {
@@ -140,6 +144,16 @@ async function indexSave(db: SlotsmithDb, index: CorpusIndexImport | null, batch
   }
 }
 
+/** Save the layer copies the import made or carried over, when they still fit the project; awaited like the index. */
+async function copiesSave(db: SlotsmithDb, copies: LayerCopyImport | null, batch: BatchRow, store: LayerCopyStore | undefined): Promise<void> {
+  if (copies === null || store === undefined) return;
+  try {
+    await store.save(await copies.finish(db, batch));
+  } catch {
+    // Only a cache: the dashboard reads the layers itself then.
+  }
+}
+
 export async function importCommit(db: SlotsmithDb, file: Blob, request: CommitRequest, control: ImportControl = {}): Promise<ImportSummary> {
   const project = await projectLoad(db, request.projectId);
   const withLabels = formatHasLabels(request.format);
@@ -153,16 +167,24 @@ export async function importCommit(db: SlotsmithDb, file: Blob, request: CommitR
   const labelsAdded = { slots: [...(request.labelsAdd?.slots ?? [])], intents: [...(request.labelsAdd?.intents ?? [])] };
   const labelsAny = labelsAdded.slots.length + labelsAdded.intents.length > 0;
   let index: CorpusIndexImport | null = null;
+  let copies: LayerCopyImport | null = null;
+  const schemaFinal = (schema: ProjectSchema) => (labelsAny ? schemaWithLabels(schema, labelsAdded) : schema);
   const begin = async () => {
     // Looked at right before the batch exists: the index is made only when the import is all the project holds.
     if (control.indexStore !== undefined) {
-      index = await CorpusIndexImport.start(db, request.projectId, { schemaFinal: (schema) => (labelsAny ? schemaWithLabels(schema, labelsAdded) : schema) }).catch(() => null);
+      index = await CorpusIndexImport.start(db, request.projectId, { schemaFinal }).catch(() => null);
+    }
+    // Likewise the project's signature and the copies that match it, for the copies the import leaves.
+    if (control.copyStore !== undefined) {
+      const settings = meta.annotator === undefined ? { schemaFinal } : { schemaFinal, annotator: meta.annotator };
+      copies = await LayerCopyImport.start(db, control.copyStore, request.projectId, settings).catch(() => null);
     }
     return batchBegin(db, request.projectId, meta);
   };
   // The batch lock tells other tabs' start-up cleanup that this batch is alive, for as long as it runs.
   return batchLocked(lock, begin, async (batchId) => {
-    const batchRow = index === null ? undefined : await db.batches.get(batchId);
+    const batchRow = index === null && copies === null ? undefined : await db.batches.get(batchId);
+    copies?.statusSet(batchRow?.layerStatus);
     let pending: Utterance[] = [];
     let read = 0;
     let stored = 0;
@@ -178,6 +200,12 @@ export async function importCommit(db: SlotsmithDb, file: Blob, request: CommitR
         // Labelled files attach by id, so a second annotator's file of the same utterances adds layers, not rows.
         const appended = await batchAppend(db, batchId, meta.annotator === undefined ? { utterances: chunk } : { utterances: chunk, attach: 'external-id' });
         if (batchRow !== undefined) index?.chunkAdd(batchRow, { utterances: chunk, ...appended });
+        if (copies?.building === true && meta.annotator !== undefined) {
+          // batchAppend stamps a chunk's layers with one clock reading: one layer tells it.
+          const first = appended.utteranceIds[0];
+          const layer = first === undefined ? undefined : await db.layers.get([first, meta.annotator]);
+          copies.chunkAdd({ utterances: chunk, utteranceIds: appended.utteranceIds, updated: layer?.updated });
+        }
         stored += chunk.length;
         control.onProgress?.({ phase: 'storing', done: stored, total: Math.max(request.total, stored) });
       }
@@ -205,9 +233,11 @@ export async function importCommit(db: SlotsmithDb, file: Blob, request: CommitR
       }
       const done = await batchFinish(db, batchId, { utterances: read });
       await indexSave(db, index, done, control.indexStore);
+      await copiesSave(db, copies, done, control.copyStore);
       return { batchId, utterances: stored, tokens, layers: done.counts.layers, attached: done.attached ?? 0, annotator: meta.annotator ?? null, labelsAdded };
     } catch (error) {
       index?.abandon();
+      copies?.abandon();
       const isCancel = error instanceof ImportCancelledError;
       await batchRollback(db, batchId, { state: isCancel ? 'cancelled' : 'failed', failure: (error as Error).message });
       throw error;

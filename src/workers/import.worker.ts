@@ -2,12 +2,15 @@
 import * as Comlink from 'comlink';
 import { dbOpen } from '../db';
 import { corpusIndexStoreOpen } from '../db/corpus-index-store';
+import { layerCopyStoreOpen } from '../db/layer-copy-store';
 import type { ImportPreview } from './import-preview';
 import { importCommit, importPreview, type CommitRequest, type ImportProgress, type ImportRequest, type ImportSummary } from './import-run';
 
 const db = dbOpen();
 // The table's index made during an import into an empty project goes here, for the table's worker to find.
 const indexStore = corpusIndexStoreOpen(indexedDB);
+// Layer copies made or signed again by an import go here, for the agreement dashboard's worker to find.
+const copyStore = layerCopyStoreOpen(indexedDB);
 const cancelledJobs = new Set<string>();
 
 function control(jobId: string, onProgress: ((p: ImportProgress) => void) | undefined) {
@@ -17,6 +20,7 @@ function control(jobId: string, onProgress: ((p: ImportProgress) => void) | unde
     onProgress: (p: ImportProgress) => void onProgress?.(p),
     lock: <T>(name: string, work: () => Promise<T>): Promise<T> => navigator.locks.request(name, work),
     indexStore,
+    copyStore,
   };
 }
 
