@@ -13,6 +13,7 @@ import {
   bootstrapTotalsRange,
   resampleValuesFromTotals,
   type AgreementReport,
+  type AlignedCorpus,
   type AlignError,
   type BootstrapJob,
   type Disagreement,
@@ -22,6 +23,7 @@ import type { AgreementCache } from '../db/agreement-cache';
 import { corpusIndexSignature } from '../db/corpus-index';
 import type { SlotsmithDb } from '../db/schema';
 import { gatheredAlign, gatheredFromCopy, LayerGathering, updatedByPosition, type GatheredLayer } from './agreement-gather';
+import { copiesAlign } from './copies-align';
 import { layersExist, layersScan } from './agreement-read';
 import { layerCopiesFor } from './layer-copies';
 import { layerCopyHas } from '../db/layer-copy';
@@ -114,6 +116,10 @@ async function disagreementRows(db: SlotsmithDb, items: readonly Disagreement[])
 
 const now = () => performance.now();
 
+function layersCounted(layers: readonly GatheredLayer[]): LayerCounted[] {
+  return layers.map((l) => ({ annotator: l.annotator, layers: l.data.count, statuses: l.statuses }));
+}
+
 /** Totals of resamples [0, job.resamples) of the core's bootstrap, joined in order; may spread them over threads. */
 export type BootstrapRunner = (job: BootstrapJob, onProgress: (done: number) => void) => Promise<Float64Array>;
 
@@ -189,17 +195,34 @@ export async function agreementRun(
     }
   }
   step('cache');
-  let gathered: GatheredLayer[];
   // What is being stored for the next run: awaited before the result, as the page ends this worker once it has it.
   const stores: Promise<void>[] = [];
   const reading = (p: { done: number; total: number }) => onProgress({ phase: 'reading', ...p });
+  let corpus: AlignedCorpus;
+  let counted: LayerCounted[];
+  let updated: Float64Array[];
+  let readAt: number;
   if (options.copies !== undefined && signature !== null) {
     const { copies, saved } = await layerCopiesFor(db, options.copies, projectId, annotators, signature, reading, steps, options.fresh === true);
     stores.push(saved);
     const empty = annotators.filter((_, i) => !layerCopyHas(copies[i] as (typeof copies)[number], statuses));
     if (empty.length > 0) return { ok: false, message: `No layers of ${empty.join(', ')} with status ${statuses.join(' or ')}: nothing to compare.` };
     step('copies');
-    gathered = copies.map((c) => gatheredFromCopy(c, statuses));
+    readAt = now();
+    onProgress({ phase: 'computing', done: 0, total: 1 });
+    const direct = copiesAlign(copies, statuses);
+    if (direct !== null) {
+      ({ corpus, counted, updated } = direct);
+    } else {
+      // Token counts differ between layers of one utterance: the general path says where.
+      const layers = copies.map((c) => gatheredFromCopy(c, statuses));
+      const aligned = gatheredAlign(layers);
+      if (!aligned.ok) return { ok: false, message: `The layers do not line up (${aligned.errorCount} problems).`, errors: aligned.errors };
+      ({ corpus } = aligned);
+      counted = layersCounted(layers);
+      updated = updatedByPosition(corpus.ids, layers);
+    }
+    step('align');
   } else {
     // Existence only: counting walks every index entry (seconds at 100k on disk); the gatherers grow as they go.
     const present = await Promise.all(annotators.map((a) => layersExist(db, projectId, a, statuses)));
@@ -208,21 +231,22 @@ export async function agreementRun(
     step('count');
     const gathering = new LayerGathering(annotators);
     await layersScan(db, { projectId, annotators, statuses }, (row) => gathering.rowAdd(row), reading, undefined, steps);
-    gathered = gathering.done();
+    const layers = gathering.done();
+    step('gather');
+    readAt = now();
+    onProgress({ phase: 'computing', done: 0, total: 1 });
+    const aligned = gatheredAlign(layers);
+    if (!aligned.ok) return { ok: false, message: `The layers do not line up (${aligned.errorCount} problems).`, errors: aligned.errors };
+    ({ corpus } = aligned);
+    counted = layersCounted(layers);
+    updated = updatedByPosition(corpus.ids, layers);
+    step('align');
   }
-  const layers = gathered;
-  step('gather');
-  const readAt = now();
-  onProgress({ phase: 'computing', done: 0, total: 1 });
-  const aligned = gatheredAlign(layers);
-  if (!aligned.ok) return { ok: false, message: `The layers do not line up (${aligned.errorCount} problems).`, errors: aligned.errors };
-  const { corpus } = aligned;
-  step('align');
   const a = annotators.indexOf(request.pair[0]);
   const b = annotators.indexOf(request.pair[1]);
   const pending = agreementPrepare(corpus, { layers: [a, b], bootstrap: request.bootstrap ?? 1000, seed: request.seed ?? 1, disagreementLimit: request.disagreementLimit ?? 100 });
   step('figures');
-  const overTime = agreementOverTime(corpus, a, b, updatedByPosition(corpus.ids, layers));
+  const overTime = agreementOverTime(corpus, a, b, updated);
   step('over time');
   const disagreements = await disagreementRows(db, pending.report.disagreements.items);
   step('texts');
@@ -234,7 +258,7 @@ export async function agreementRun(
       ok: true,
       report,
       overTime,
-      counted: layers.map((l) => ({ annotator: l.annotator, layers: l.data.count, statuses: l.statuses })),
+      counted,
       statuses: [...statuses],
       disagreements,
       timings: { readMs: readAt - started, pointMs: pointAt - started, computeMs: at - readAt, totalMs: at - started, steps: { ...steps } },
