@@ -151,6 +151,18 @@ test('the overview shows the demo’s distribution and progress', async ({ page,
 
 test('after a label edit the figures come from patched layer copies and totals, and equal a full recomputation', async ({ page }) => {
   test.setTimeout(180_000);
+  // Counts the agreement workers the page starts: it keeps one between runs (dashboard-worker.ts).
+  await page.addInitScript(() => {
+    const Original = window.Worker;
+    const counter = window as unknown as { dashboardWorkers: number };
+    counter.dashboardWorkers = 0;
+    window.Worker = class extends Original {
+      constructor(url: string | URL, options?: WorkerOptions) {
+        super(url, options);
+        if (String(url).includes('agreement-dashboard')) counter.dashboardWorkers++;
+      }
+    };
+  });
   await demoOpen(page);
   const screens = page.getByRole('navigation', { name: 'Screens' });
   await screens.getByRole('button', { name: 'Agreement' }).click();
@@ -205,4 +217,6 @@ test('after a label edit the figures come from patched layer copies and totals, 
   await expect(compared).toHaveAttribute('data-pending', 'false', { timeout: SLOW });
   expect(await compared.getAttribute('data-steps')).toContain('copies read');
   expect(await figures()).toEqual(patched);
+  // Three runs (first, after the edit, "Compute again"), one worker: the page kept it between them.
+  expect(await page.evaluate(() => (window as unknown as { dashboardWorkers: number }).dashboardWorkers)).toBe(1);
 });
