@@ -5,7 +5,8 @@
  */
 import { readFileSync, writeFileSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
-import { agreementCompute, layersAlign } from '../src/core/agreement';
+import { agreementCompute, agreementPrepare, bootstrapPatchRange, bootstrapTotalsRange, layersAlign, type AlignedCorpus, type BootstrapPatchPlan } from '../src/core/agreement';
+import { bootstrapWasmAvailable, type BootstrapEngine } from '../src/core/agreement/bootstrap-wasm';
 import { columnsRead, columnsWrite } from '../src/core/formats';
 import { tagsConvert } from '../src/core/schemes';
 import type { Utterance } from '../src/core/types';
@@ -79,4 +80,56 @@ export function agreeBench(options: { root: string; out: string; count: number; 
   for (let r = 0; r < 3; r++) bootstrapRuns.push(timeMs(() => agreementCompute(aligned.corpus, { bootstrap: 1000 })));
   const alignMs = timeMs(() => layersAlign(layers.map((l) => ({ name: l.name, scheme: l.scheme, utterances: l.utterances }))));
   console.log(`  in-process, after parsing: align ${alignMs.toFixed(0)} ms; agreement (all figures, no bootstrap) median ${median(computeRuns).toFixed(0)} ms (target ≤ 150 ms); with 1,000 bootstrap resamples median ${median(bootstrapRuns).toFixed(0)} ms`);
+  bootstrapEnginesBench(aligned.corpus, Math.max(repeats, 3));
+}
+
+/** Steps of 100 resamples, as the agreement worker and its helpers call the core. */
+const ENGINE_STEP = 100;
+
+/**
+ * The bootstrap's two engines side by side on one thread (interleaved, medians): 1,000 resamples'
+ * totals, and the patch replay after 1 and after 10 changed utterances; each pair must agree exactly.
+ */
+export function bootstrapEnginesBench(corpus: AlignedCorpus, repeats: number): void {
+  const job = agreementPrepare(corpus, { bootstrap: 1000, seed: 1 }).job;
+  if (job === null) throw new Error('no bootstrap job on the bench pair');
+  const { rows, layout, seed, resamples } = job;
+  const count = rows.patternOf.length;
+  const width = layout.width;
+  const totals = (engine: BootstrapEngine): Float64Array => {
+    const out = new Float64Array(resamples * width);
+    for (let at = 0; at < resamples; at += ENGINE_STEP) out.set(bootstrapTotalsRange(rows, layout, seed, at, Math.min(resamples, at + ENGINE_STEP), { engine }), at * width);
+    return out;
+  };
+  const planOf = (changed: number): BootstrapPatchPlan => {
+    // Spread over the corpus, first and last included; small integer changes as one label edit makes.
+    const positions = Int32Array.from({ length: changed }, (_, i) => Math.round((i * (count - 1)) / Math.max(1, changed - 1)));
+    const deltas = Float64Array.from({ length: changed * width }, (_, i) => ((i * 7) % 5) - 2);
+    return { positions, deltas, count, width, seed };
+  };
+  const patch = (plan: BootstrapPatchPlan, engine: BootstrapEngine): Float64Array => {
+    const out = new Float64Array(resamples * width);
+    for (let at = 0; at < resamples; at += ENGINE_STEP) out.set(bootstrapPatchRange(plan, at, Math.min(resamples, at + ENGINE_STEP), { engine }), at * width);
+    return out;
+  };
+  const same = (a: Float64Array, b: Float64Array): boolean => a.length === b.length && a.every((v, i) => Object.is(v, b[i]));
+  const cases: [string, (engine: BootstrapEngine) => Float64Array][] = [
+    ['1,000 resamples (totals)', totals],
+    ['patch, 1 changed utterance', (engine) => patch(planOf(1), engine)],
+    ['patch, 10 changed utterances', (engine) => patch(planOf(10), engine)],
+  ];
+  console.log(`  bootstrap engines, one thread, ${count} utterances, ${rows.rowStart.length - 1} row patterns, ${rows.index.length} entries, width ${width}; WebAssembly SIMD ${bootstrapWasmAvailable() ? 'available' : 'NOT available (both rows run JS)'}; ${repeats} interleaved runs, medians`);
+  for (const [label, run] of cases) {
+    const times: Record<BootstrapEngine, number[]> = { js: [], auto: [] };
+    let identical = true;
+    for (let r = 0; r < repeats; r++) {
+      let js: Float64Array = new Float64Array(0);
+      let wasm: Float64Array = new Float64Array(0);
+      times.js.push(timeMs(() => (js = run('js'))));
+      times.auto.push(timeMs(() => (wasm = run('auto'))));
+      identical &&= same(js, wasm);
+    }
+    const [j, w] = [median(times.js), median(times.auto)];
+    console.log(`  ${label.padEnd(30)} JS ${j.toFixed(0).padStart(5)} ms, WASM ${w.toFixed(0).padStart(5)} ms (${(j / w).toFixed(1)}×), results identical: ${identical ? 'yes' : 'NO'}`);
+  }
 }

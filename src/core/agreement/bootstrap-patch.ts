@@ -7,6 +7,7 @@
  * (integer totals), at a fraction of the time.
  */
 import { bootstrapStateAt } from './bootstrap';
+import { wasmHitsMarked, wasmHitsOne, type BootstrapOptions } from './bootstrap-wasm';
 import type { UtteranceRows } from './pair-counts';
 import type { TotalsLayout } from './totals';
 
@@ -134,11 +135,59 @@ export function bootstrapPatchPlan(before: BootstrapTotals, rows: UtteranceRows,
   return { ...changes, count, width, seed };
 }
 
-/** How the totals of resamples [from, to) change under `plan` (`width` per resample; add them to the kept ones). */
-export function bootstrapPatchRange(plan: BootstrapPatchPlan, from: number, to: number): Float64Array {
+/**
+ * `hits[r · changed + c]` draws of changed utterance c in resample r, as changes: each changed
+ * total is Σ_c hits · delta_c. The JS replay adds delta_c once per draw instead; both are the exact
+ * integer while every partial sum stays below 2^53, which `deltasExact` checks.
+ */
+function changesFromHits(hits: Int32Array, deltas: Float64Array, changed: number, width: number, out: Float64Array): void {
+  const resamples = out.length / width;
+  for (let r = 0; r < resamples; r++) {
+    const base = r * width;
+    for (let c = 0; c < changed; c++) {
+      const h = hits[r * changed + c] as number;
+      if (h === 0) continue;
+      const from = c * width;
+      for (let j = 0; j < width; j++) out[base + j]! += h * (deltas[from + j] as number);
+    }
+  }
+}
+
+/** Integer deltas with count · max |delta| ≤ 2^53: any order of adding them per draw gives the same exact totals. */
+export function deltasExact(deltas: Float64Array, count: number): boolean {
+  let maxAbs = 0;
+  for (const d of deltas) {
+    if (!Number.isInteger(d)) return false;
+    maxAbs = Math.max(maxAbs, Math.abs(d));
+  }
+  return count * maxAbs <= 2 ** 53;
+}
+
+/**
+ * How the totals of resamples [from, to) change under `plan` (`width` per resample; add them to the
+ * kept ones). WebAssembly SIMD counts the draws when it can promise the same numbers (see
+ * bootstrap-wasm.ts); `options.engine: 'js'` keeps to the JS replay.
+ */
+export function bootstrapPatchRange(plan: BootstrapPatchPlan, from: number, to: number, options: BootstrapOptions = {}): Float64Array {
   const { positions, deltas, count, width, seed } = plan;
   const out = new Float64Array(Math.max(0, to - from) * width);
   if (positions.length === 0) return out;
+  const wasm = options.engine !== 'js' && to > from && width > 0;
+  if (wasm && positions.length === 1) {
+    const u = positions[0] as number;
+    const hits = wasmHitsOne(count, outputFirst(u, count), outputFirst(u + 1, count), bootstrapStateAt(seed, count, from), Math.imul(count, MULBERRY_STEP), to - from);
+    if (hits !== null) {
+      // As `drawsReplayOne`: one product per total, added to zero.
+      changesFromHits(hits, deltas, 1, width, out);
+      return out;
+    }
+  } else if (wasm && deltasExact(deltas, count)) {
+    const hits = wasmHitsMarked(count, positions, bootstrapStateAt(seed, count, from), Math.imul(count, MULBERRY_STEP), to - from);
+    if (hits !== null) {
+      changesFromHits(hits, deltas, positions.length, width, out);
+      return out;
+    }
+  }
   // One bit per position (a few KB, stays in cache): the draws only test it; hits look up the change.
   const marked = new Int32Array((count >> 5) + 1);
   const changeOf = new Map<number, number>();
@@ -170,11 +219,11 @@ export function bootstrapTotalsPatched(
   rows: UtteranceRows,
   layout: TotalsLayout,
   seed: number,
-  options: { maxChanged?: number } = {},
+  options: { maxChanged?: number } & BootstrapOptions = {},
 ): { totals: Float64Array; changed: number } | null {
   const plan = bootstrapPatchPlan(before, rows, layout, seed, options.maxChanged);
   if (plan === null) return null;
   const totals = before.totals.slice();
-  totalsAdd(totals, bootstrapPatchRange(plan, 0, totals.length / plan.width), 0, plan.width);
+  totalsAdd(totals, bootstrapPatchRange(plan, 0, totals.length / plan.width, options), 0, plan.width);
   return { totals, changed: plan.positions.length };
 }

@@ -1,5 +1,6 @@
 import type { UtteranceRows } from './pair-counts';
 import { pairFiguresFromTotals, type PairFigures, type TotalsLayout } from './totals';
+import { wasmTotals, type BootstrapOptions } from './bootstrap-wasm';
 
 /**
  * mulberry32 (Tommy Ettinger's 32-bit generator, public domain): small, fast and seedable, enough
@@ -155,11 +156,16 @@ export function bootstrapStateAt(seed: number, count: number, from: number): num
  * of one pass. A resample draws utterances into multiplicities w_p of their rows, then the totals are
  * Σ w_p · row_p over the distinct sparse rows: O(utterances + entries), never O(tokens). Totals are
  * integer sums below 2^53, exact in any order, so summing LANES resamples side by side (and by
- * column) gives exactly the one-at-a-time values.
+ * column) gives exactly the one-at-a-time values. WebAssembly SIMD (bootstrap-wasm.ts) computes the
+ * same integers when it can promise exactness; `options.engine: 'js'` keeps to the code below.
  */
-export function bootstrapTotalsRange(rows: UtteranceRows, layout: TotalsLayout, seed: number, from: number, to: number): Float64Array {
+export function bootstrapTotalsRange(rows: UtteranceRows, layout: TotalsLayout, seed: number, from: number, to: number, options: BootstrapOptions = {}): Float64Array {
   const { patternOf } = rows;
   const count = patternOf.length;
+  if (options.engine !== 'js' && to > from) {
+    const fast = wasmTotals(rows, layout.width, bootstrapStateAt(seed, count, from), Math.imul(count, MULBERRY_STEP), to - from);
+    if (fast !== null) return fast;
+  }
   const patterns = rows.rowStart.length - 1;
   const weights = new Int32Array(patterns);
   const laned = new Int32Array(patterns * LANES);
@@ -194,8 +200,8 @@ export function resampleValuesFromTotals(totals: Float64Array, layout: TotalsLay
 }
 
 /** Resamples [from, to) of the bootstrap stream for `seed` (see `bootstrapTotalsRange`), as figure values. */
-export function bootstrapRange(rows: UtteranceRows, layout: TotalsLayout, seed: number, from: number, to: number): ResampleValues {
-  return resampleValuesFromTotals(bootstrapTotalsRange(rows, layout, seed, from, to), layout);
+export function bootstrapRange(rows: UtteranceRows, layout: TotalsLayout, seed: number, from: number, to: number, options: BootstrapOptions = {}): ResampleValues {
+  return resampleValuesFromTotals(bootstrapTotalsRange(rows, layout, seed, from, to, options), layout);
 }
 
 /** Ranges of resamples joined in order (each value array as long as its range). */
