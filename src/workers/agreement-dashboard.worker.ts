@@ -82,6 +82,8 @@ const api = {
       copies,
       totals,
       fresh,
+      // The page keeps this worker after the answer: stores finish meanwhile (memory-stores.ts holds them already).
+      storeAfter: (writing) => void writing.catch(() => undefined),
     });
   },
   overview(request: OverviewRequest, onProgress: (p: LayerScanProgress) => void): Promise<OverviewResult> {

@@ -158,6 +158,12 @@ export interface AgreementRunOptions {
   copies?: LayerCopyStore;
   /** The last bootstrap totals per choice of layers: after an edit they are patched, not resampled (core `bootstrapTotalsPatched`). */
   totals?: BootstrapStore;
+  /**
+   * Given, the result is answered before what is stored for the next run is written, and the
+   * writing is handed over: for a worker the page keeps alive (its memory stores hold the entries
+   * already). Without, the run waits for the writes (the page may end the worker once answered).
+   */
+  storeAfter?: (writing: Promise<void>) => void;
 
 }
 
@@ -265,12 +271,23 @@ export async function agreementRun(
       intervalsPending,
     };
   };
-  if (job === null) {
+  // Copies, totals and figures stored for the next run: awaited, unless the caller outlives the answer (`storeAfter`).
+  const storesFinish = async (report: AgreementReport): Promise<AgreementResult> => {
+    const save = async (final: AgreementResult) => {
+      if (cache !== undefined && signature !== null) await cache.save(projectId, requestKey(request), signature, final);
+    };
+    if (options.storeAfter !== undefined) {
+      const final = result(report, false);
+      options.storeAfter(Promise.all(stores).then(() => save(final)));
+      return final;
+    }
     await Promise.all(stores);
-    const final = result(pending.report, false);
-    if (cache !== undefined && signature !== null) await cache.save(projectId, requestKey(request), signature, final);
+    step('stored');
+    const final = result(report, false);
+    await save(final);
     return final;
-  }
+  };
+  if (job === null) return storesFinish(pending.report);
   options.onPoint?.(result(structuredClone(pending.report), true));
   const intervals = (done: number) => onProgress({ phase: 'intervals', done, total: job.resamples });
   const key = requestKey(request);
@@ -282,9 +299,6 @@ export async function agreementRun(
   step(plan === null ? 'bootstrap' : 'totals patched');
   if (options.totals !== undefined) stores.push(options.totals.save(projectId, key, { rows: job.rows, layout: job.layout, seed: job.seed, totals }));
   const report = agreementIntervalsAdd(pending, resampleValuesFromTotals(totals, job.layout));
-  await Promise.all(stores);
-  step('stored');
-  const final = result(report, false);
-  if (cache !== undefined && signature !== null) await cache.save(projectId, requestKey(request), signature, final);
-  return final;
+  step('intervals');
+  return storesFinish(report);
 }

@@ -3,6 +3,8 @@ import { IDBFactory } from 'fake-indexeddb';
 import { describe, expect, it } from 'vitest';
 import { columnsRead } from '../../src/core/formats';
 import { agreementCacheOpen, AGREEMENT_CACHE_PER_PROJECT } from '../../src/db/agreement-cache';
+import { bootstrapStoreOpen } from '../../src/db/bootstrap-store';
+import { layerCopyStoreOpen } from '../../src/db/layer-copy-store';
 import { corpusIndexSignature } from '../../src/db/corpus-index';
 import { layerSave } from '../../src/db/layer-repo';
 import { agreementRun, type AgreementOutcome, type AgreementRequest, type AgreementResult } from '../../src/workers/agreement-run';
@@ -82,6 +84,28 @@ describe('agreement results kept for unchanged layers', () => {
     const kept = ok(await agreementRun(db, request(projectId), undefined, { cache }));
     expect(kept.keptFrom).toEqual(expect.any(Number));
     expect(shown(kept)).toEqual(shown(fresh));
+  });
+
+  it('with storeAfter the answer comes before the writes, which are handed over and then hold what a waiting run stores', async () => {
+    const { db, projectId, cache } = await seeded();
+    const copies = layerCopyStoreOpen(new IDBFactory());
+    const totals = bootstrapStoreOpen(new IDBFactory());
+    const handed: Promise<void>[] = [];
+    const first = ok(await agreementRun(db, request(projectId), undefined, { cache, copies, totals, storeAfter: (w) => handed.push(w) }));
+    expect(handed).toHaveLength(1);
+    expect(first.timings.steps).not.toHaveProperty('stored');
+    await handed[0];
+    // Written: figures (the next run is a cache hit), copies at the signature and the totals of this choice.
+    const again = ok(await agreementRun(db, request(projectId), undefined, { cache }));
+    expect(again.keptFrom).toEqual(expect.any(Number));
+    expect(shown(again)).toEqual(shown(first));
+    const signature = await corpusIndexSignature(db, projectId);
+    const stored = await copies.load(projectId, ['ann-a', 'ann-b']);
+    expect([...stored.values()].map((c) => c.signature)).toEqual([signature, signature]);
+    const fresh = ok(await agreementRun(db, request(projectId), undefined, { copies, totals, fresh: true }));
+    expect(fresh.report).toEqual(first.report);
+    // Without storeAfter the run waits for its writes, and says how long they took.
+    expect(fresh.timings.steps).toHaveProperty('stored');
   });
 
   it('keeps the newest few results of a project, and ignores entries of another signature', async () => {
