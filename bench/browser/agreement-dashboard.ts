@@ -8,16 +8,20 @@
  * the import is measured elsewhere, and this keeps the setup to seconds. Layers get `updated` times
  * spread over 30 days, so the agreement-over-time chart has points to draw.
  *
+ * A last scenario makes a second project of the same layers through the app's real import (the import
+ * screen, one file per annotator, the second attaching its layers by id) and opens its dashboard: the
+ * imports leave layer copies at the project's signature, so that first run reads no layer.
+ *
  * Standalone: `npx tsx bench/browser/agreement-dashboard.ts` (serves AGREEMENT_BENCH_DIST, default
  * dist/, which must hold a build; BENCH_COUNT sets the size).
  */
-import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { spawn } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { chromium, type Page } from '@playwright/test';
-import { columnsRead } from '../../src/core/formats';
+import { columnsRead, columnsWrite } from '../../src/core/formats';
 import type { Utterance } from '../../src/core/types';
 import { corpusGenerate } from '../../scripts/corpus/generate';
 
@@ -48,6 +52,8 @@ export interface DashboardBenchResult {
   utterances: number;
   tokens: number;
   runs: DashboardRun[];
+  /** Seconds each annotator's file took through the import screen (Import to summary), for the last scenario. */
+  imports: { annotator: string; seconds: number }[];
 }
 
 /** Two annotators on every utterance: the bench's pair files when there, else generated (both label all). */
@@ -152,6 +158,50 @@ async function projectSeed(page: Page, a: Utterance[], b: Utterance[], name: str
   return projectId;
 }
 
+/** One annotator's file through the import screen of the open project, as a user brings it in; returns seconds from Import to the summary. */
+async function fileImport(page: Page, file: string, annotator: string, utterances: number): Promise<number> {
+  await page.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Bring in data' }).click();
+  await page.getByLabel('File to bring in').setInputFiles(file);
+  await page.getByLabel('Whose labels are these?').fill(annotator);
+  await page.getByRole('button', { name: 'Preview' }).click();
+  await page.getByRole('button', { name: 'Import' }).and(page.locator(':enabled')).waitFor({ timeout: LONG });
+  const started = performance.now();
+  await page.getByRole('button', { name: 'Import' }).click();
+  const done = page.getByText(`Stored ${utterances.toLocaleString('en')} utterances`);
+  const failed = page.getByRole('alert');
+  await done.or(failed).first().waitFor({ timeout: LONG });
+  if (await failed.isVisible()) throw new Error(`import of ${file} failed: ${await failed.innerText()}`);
+  return (performance.now() - started) / 1000;
+}
+
+/** A new project made through the import screen from the two layers' files; returns its id and the import times. */
+async function projectImport(page: Page, url: string, a: Utterance[], b: Utterance[], out: string): Promise<{ projectId: number; imports: { annotator: string; seconds: number }[] }> {
+  const dir = mkdtempSync(join(tmpdir(), 'slotsmith-dashboard-files-'));
+  try {
+    const files = [
+      { annotator: 'ann-a', layer: a, file: `${out}/pair-a.iob2` },
+      { annotator: 'ann-b', layer: b, file: `${out}/pair-b.iob2` },
+    ].map((f) => {
+      // The bench's own pair files when they hold exactly these layers; else the layers written out.
+      if (existsSync(f.file) && columnsRead(readFileSync(f.file)).utterances.length === f.layer.length) return f;
+      const file = join(dir, `${f.annotator}.iob2`);
+      writeFileSync(file, columnsWrite(f.layer));
+      return { ...f, file };
+    });
+    await page.goto(url);
+    const name = `Agreement bench imported ${Date.now()}`;
+    await page.getByLabel('New project name').fill(name);
+    await page.getByRole('button', { name: 'Create project' }).click();
+    await page.waitForURL(/#\/p\/\d+\//, { timeout: LONG });
+    const projectId = Number(/#\/p\/(\d+)\//.exec(page.url())?.[1]);
+    const imports = [];
+    for (const f of files) imports.push({ annotator: f.annotator, seconds: await fileImport(page, f.file, f.annotator, f.layer.length) });
+    return { projectId, imports };
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
 /** Changes ann-b's first layer (its first tag flips between O and B-service), with its history row. */
 async function layerEdit(page: Page, projectId: number): Promise<void> {
   await page.evaluate(async (projectId) => {
@@ -249,7 +299,11 @@ export async function agreementDashboardBench(page: Page, url: string, options: 
   await page.getByTestId('agreement-compared').waitFor({ state: 'detached', timeout: LONG });
   await layerEdit(page, projectId);
   const edited = await runMeasure(page, 'reopened after one label edit', () => page.evaluate((id) => void (location.hash = `#/p/${id}/agreement?a=ann-a&b=ann-b`), projectId));
-  return { utterances: a.length, tokens: a.reduce((n, u) => n + u.tokens.length, 0), runs: [first, reopen, again, edited] };
+  // The same layers as a new project through the import screen; its first dashboard run finds the copies the imports left.
+  const imported = await projectImport(page, url, a, b, options.out);
+  await longTasksWatch(page);
+  const afterImport = await runMeasure(page, 'first run after import', () => page.evaluate((id) => void (location.hash = `#/p/${id}/agreement?a=ann-a&b=ann-b`), imported.projectId));
+  return { utterances: a.length, tokens: a.reduce((n, u) => n + u.tokens.length, 0), runs: [first, reopen, again, edited, afterImport], imports: imported.imports };
 }
 
 const met = (ok: boolean) => (ok ? 'met' : 'NOT met');
@@ -257,7 +311,10 @@ const met = (ok: boolean) => (ok ? 'met' : 'NOT met');
 export function agreementDashboardPrint(result: DashboardBenchResult): void {
   console.log(`\n== browser: agreement dashboard on ${result.utterances.toLocaleString('en')} utterances × 2 annotators (${result.tokens.toLocaleString('en')} tokens each), 1,000 resamples`);
   console.log('  (a reopened screen shows figures kept from the last run while no layer changed; any edit computes them again, from');
-  console.log('   compact copies of the layers kept since the first run and patched from the edits\' history rows)');
+  console.log('   compact copies of the layers kept since the first run and patched from the edits\' history rows; the first');
+  console.log('   four runs are on a project written straight into IndexedDB, so no copy exists at the first run; the last is on');
+  console.log('   the same layers imported through the import screen, whose imports leave the copies)');
+  console.log(`  imports through the import screen: ${result.imports.map((i) => `${i.annotator} ${i.seconds.toFixed(1)} s`).join(', ')}`);
   for (const r of result.runs) {
     const task = r.longestTaskMs === null ? 'none ≥ 50 ms reported' : `${r.longestTaskMs.toFixed(0)} ms (${r.longTasks} long tasks)`;
     console.log(
