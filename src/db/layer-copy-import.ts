@@ -3,12 +3,13 @@
  * after an import finds its copies at the project's signature instead of reading every layer. A
  * labelled import builds its annotator's copy from the utterances it stores (batchAppend never
  * replaces a stored layer: it adds new utterances or attaches to ones without this annotator's
- * layer), merged into that annotator's copy when one is stored at exactly the signature before the
- * import, or alone when the annotator had no layer in the project. Other annotators' copies at that
- * signature are still exact (the import wrote only this annotator's layers) and are signed again.
- * All of it is saved only when the project's signature after the import is exactly the one before
- * plus this import's finished batch (the rule of corpus-index-import.ts); any other write in between
- * and nothing is saved, so the next run reads as it did before.
+ * layer), merged into that annotator's copy when one is stored at the signature before the import
+ * (or behind it by label edits only: then patched first), or alone when the annotator had no layer
+ * in the project. Other annotators' copies at that signature (or patched to it) are still exact (the
+ * import wrote only this annotator's layers) and are signed again. All of it is saved only when the
+ * project's signature after the import is exactly the one before plus this import's finished batch
+ * (the rule of corpus-index-import.ts); any other write in between and nothing is saved, so the next
+ * run reads as it did before.
  */
 import Dexie from 'dexie';
 import type { LayerStatus, ProjectSchema } from '../core/backup/model';
@@ -23,6 +24,12 @@ export interface LayerCopyImportSettings {
   annotator?: string;
   /** The schema the project will have once the import is done (the file's labels added, if chosen). */
   schemaFinal: (current: ProjectSchema) => ProjectSchema;
+  /**
+   * Brings copies behind the signature by label edits only (same project row and batches) up to it
+   * from the history rows (layer-copies.ts `copiesPatch`); null for a copy it cannot. Without it only
+   * copies at exactly the signature before are carried.
+   */
+  patch?: (db: SlotsmithDb, projectId: number, behind: readonly LayerCopy[], next: CorpusSignature) => Promise<Map<string, LayerCopy | null>>;
 }
 
 /** What a stored chunk brings: the utterances as read and what batchAppend reported for them. */
@@ -73,6 +80,11 @@ export class LayerCopyImport {
     const { before, names, had } = seen;
     const stored = await store.load(projectId, annotator === undefined || names.includes(annotator) ? names : [...names, annotator]);
     const exact = [...stored.values()].filter((c) => corpusSignatureSame(c.signature, before));
+    // Behind by label edits only: patched up to the signature before (a layer edited after it shows in the signature after).
+    const behind = [...stored.values()].filter((c) => c.signature.project === before.project && c.signature.batches === before.batches && c.signature.historyLast < before.historyLast);
+    if (behind.length > 0 && settings.patch !== undefined) {
+      for (const copy of (await settings.patch(db, projectId, behind, before)).values()) if (copy !== null) exact.push(copy);
+    }
     const own = annotator === undefined ? undefined : had ? exact.find((c) => c.annotator === annotator) : null;
     const others = exact.filter((c) => c.annotator !== annotator);
     if (own === undefined && others.length === 0) return null;

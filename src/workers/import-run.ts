@@ -25,6 +25,7 @@ import type { CorpusIndexStore } from '../db/corpus-index-store';
 import { LayerCopyImport } from '../db/layer-copy-import';
 import type { LayerCopyStore } from '../db/layer-copy-store';
 import { PreviewCollector, type ImportPreview } from './import-preview';
+import { copiesPatch } from './layer-copies';
 import { fileStreamRead, formatHasLabels, ImportCancelledError, importReaderCreate, type ImportFileOptions } from './import-read';
 
 /** Utterances per stored chunk: big enough that transactions are few, small enough to keep memory flat. */
@@ -176,7 +177,7 @@ export async function importCommit(db: SlotsmithDb, file: Blob, request: CommitR
     }
     // Likewise the project's signature and the copies that match it, for the copies the import leaves.
     if (control.copyStore !== undefined) {
-      const settings = meta.annotator === undefined ? { schemaFinal } : { schemaFinal, annotator: meta.annotator };
+      const settings = meta.annotator === undefined ? { schemaFinal, patch: copiesPatch } : { schemaFinal, patch: copiesPatch, annotator: meta.annotator };
       copies = await LayerCopyImport.start(db, control.copyStore, request.projectId, settings).catch(() => null);
     }
     return batchBegin(db, request.projectId, meta);

@@ -30,8 +30,8 @@ function patchable(copy: LayerCopy, next: CorpusSignature): boolean {
   return before.project === next.project && before.batches === next.batches && before.historyLast <= next.historyLast;
 }
 
-/** Copies behind `next` by edits only, patched; null for those that need reading in full. */
-async function copiesPatch(db: SlotsmithDb, projectId: number, behind: readonly LayerCopy[], next: CorpusSignature): Promise<Map<string, LayerCopy | null>> {
+/** Copies behind `next` by edits only, patched; null for those that need reading in full (also for an import's start). */
+export async function copiesPatch(db: SlotsmithDb, projectId: number, behind: readonly LayerCopy[], next: CorpusSignature): Promise<Map<string, LayerCopy | null>> {
   const out = new Map<string, LayerCopy | null>();
   if (behind.length === 0) return out;
   const from = Math.min(...behind.map((c) => c.signature.historyLast));

@@ -9,6 +9,7 @@ import { IDBFactory } from 'fake-indexeddb';
 import { describe, expect, it } from 'vitest';
 import { BATCH_BEGIN_LOCK } from '../../src/db/batch-cleanup';
 import { corpusIndexSignature, corpusSignatureSame, type CorpusSignature } from '../../src/db/corpus-index';
+import { LayerCopyImport } from '../../src/db/layer-copy-import';
 import { layerCopiesVisit, layerCopyMerged, LayerCopyBuilder, type LayerCopy, type LayerCopyRow } from '../../src/db/layer-copy';
 import { layerCopyStoreOpen, type LayerCopyStore } from '../../src/db/layer-copy-store';
 import { layerSave } from '../../src/db/layer-repo';
@@ -151,23 +152,37 @@ describe('layer copies left by an import', () => {
     await expectStoredExact(db, store, projectId, { atSignature: ['ann-a', 'ann-b'], exact: ['ann-a'] });
   });
 
-  it('a labelled import after label edits: copies brought up to date by a run are carried; the stale ones are left', async () => {
+  it('a labelled import after label edits: copies behind by those edits are patched, then carried and merged', async () => {
     const { db, store, projectId, control } = await setup();
     await importCommit(db, new Blob([annA]), request(projectId, 'ann-a'), control);
     await importCommit(db, new Blob([annB]), request(projectId, 'ann-b'), control);
     const ids = (await db.layers.where('[projectId+annotator+status]').between([projectId, 'ann-a', ''], [projectId, 'ann-a', '\uffff']).limit(3).toArray()).map((l) => l.utteranceId);
     await edit(db, ids[0] as number, 'ann-a', { status: 'flagged', intent: 'cancel' });
     await edit(db, ids[1] as number, 'ann-b', { tags: (await db.layers.get([ids[1] as number, 'ann-a']))?.tags.map(() => 'O') ?? [], status: 'draft' });
-    // A dashboard run patches ann-a's copy to the signature now; ann-b's stays behind.
-    await (await layerCopiesFor(db, store, projectId, ['ann-a'], await corpusIndexSignature(db, projectId))).saved;
-    // ann-a's file again without ids: ann-a had layers, and its copy is at the signature before.
+    // No dashboard run since the edits: both stored copies are behind the signature by them.
+    // ann-a's file again without ids: ann-a had layers; its copy, patched, takes the new ones.
     await importCommit(db, new Blob([annA.replace(/^# id = .*\n/gm, '')]), request(projectId, 'ann-a'), control);
-    await expectStoredExact(db, store, projectId, { atSignature: ['ann-a'] });
-    // ann-b had layers and no copy at the signature: its new layers are not made into a copy.
+    await expectStoredExact(db, store, projectId, { atSignature: ['ann-a', 'ann-b'] });
+    // An edit, a dashboard run that patches ann-b only, then an ann-c file: ann-a's copy is behind and patched at the import.
+    await edit(db, ids[2] as number, 'ann-a', { status: 'skipped' });
+    await (await layerCopiesFor(db, store, projectId, ['ann-b'], await corpusIndexSignature(db, projectId))).saved;
+    await importCommit(db, new Blob([visitsFile(300, 'ann-c')]), request(projectId, 'ann-c'), control);
+    await expectStoredExact(db, store, projectId, { atSignature: ['ann-a', 'ann-b', 'ann-c'], exact: ['ann-c'] });
+  });
+
+  it('without a way to patch, copies behind by edits are left, and the importing annotator with layers gets no copy', async () => {
+    const { db, store, projectId, control } = await setup();
+    await importCommit(db, new Blob([annA]), request(projectId, 'ann-a'), control);
+    await importCommit(db, new Blob([annB]), request(projectId, 'ann-b'), control);
+    const first = (await db.layers.where('[projectId+annotator+status]').between([projectId, 'ann-b', ''], [projectId, 'ann-b', '\uffff']).first())?.utteranceId as number;
+    await edit(db, first, 'ann-b', { status: 'flagged' });
+    await (await layerCopiesFor(db, store, projectId, ['ann-a'], await corpusIndexSignature(db, projectId))).saved;
+    const copies = await LayerCopyImport.start(db, store, projectId, { annotator: 'ann-b', schemaFinal: (s) => s });
+    expect(copies).not.toBeNull();
+    expect(copies?.building).toBe(false);
     await importCommit(db, new Blob([annB.replace(/^# id = .*\n/gm, '')]), request(projectId, 'ann-b'), control);
-    await expectStoredExact(db, store, projectId, { atSignature: ['ann-a'] });
-    const run = await layerCopiesFor(db, store, projectId, ['ann-a', 'ann-b'], await corpusIndexSignature(db, projectId));
-    expect(run.how).toEqual({ 'ann-a': 'kept', 'ann-b': 'read' });
+    // With the app's patch (importCommit's), ann-b's copy was patched and merged all the same.
+    await expectStoredExact(db, store, projectId, { atSignature: ['ann-a', 'ann-b'] });
   });
 
   it('an edit during the import: nothing is signed with the signature after it', async () => {
