@@ -12,7 +12,8 @@ import { watchOrigins } from './helpers';
 const SLOW = 60_000;
 
 /** CSP source expressions that name no other origin (CSP Level 3, section 2.3.1 "Source Lists"). */
-const LOCAL_SOURCES = new Set(["'self'", "'none'", 'data:', 'blob:']);
+// 'wasm-unsafe-eval' names no origin: it lets the page compile WebAssembly (the bootstrap), never eval text.
+const LOCAL_SOURCES = new Set(["'self'", "'none'", 'data:', 'blob:', "'wasm-unsafe-eval'"]);
 
 /** URLs in the bundle that are text, never fetched (and the CSP would block them anyway). */
 const HARMLESS_URLS: { pattern: RegExp; reason: string }[] = [
