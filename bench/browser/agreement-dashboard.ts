@@ -273,7 +273,7 @@ async function runMeasure(page: Page, label: string, start: () => Promise<void>)
  * On an open page of the app at `url`: seed the project, open its agreement screen (the run starts
  * by itself; the first run reads every layer and keeps compact copies of them), leave and reopen it
  * (layers unchanged: the figures kept by the worker), run it again with "Compute again" (computed
- * afresh from the kept layer copies), then make one label edit and reopen (figures computed again,
+ * afresh: every layer read again, new copies kept), then make one label edit and reopen (figures computed again,
  * the copies patched from the edit's history row).
  */
 export async function agreementDashboardBench(page: Page, url: string, options: { out: string; count: number; seed: number }): Promise<DashboardBenchResult> {
@@ -289,7 +289,7 @@ export async function agreementDashboardBench(page: Page, url: string, options: 
   await page.getByTestId('agreement-compared').waitFor({ state: 'detached', timeout: LONG });
   const reopen = await runMeasure(page, 'reopened, layers unchanged', () => page.evaluate((id) => void (location.hash = `#/p/${id}/agreement?a=ann-a&b=ann-b`), projectId));
   await page.getByRole('button', { name: 'Compute again' }).and(page.locator(':enabled')).waitFor({ timeout: LONG });
-  const again = await runMeasure(page, 'Compute again (layer copies)', async () => {
+  const again = await runMeasure(page, 'Compute again (reads every layer)', async () => {
     await page.getByRole('button', { name: 'Compute again' }).click();
     await page.getByTestId('agreement-compared').waitFor({ state: 'detached', timeout: LONG });
   });
