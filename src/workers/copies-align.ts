@@ -96,6 +96,50 @@ function tagTables(copies: readonly LayerCopy[], picks: readonly Int32Array[], s
   });
 }
 
+/**
+ * How each raw tag code reads, the CoNLL-2000 way as AlignLayerGatherer does (a stray I-X or E-X
+ * opens a span, E-X and S-X close one), as lookups instead of branches: its code when the span
+ * open before it is its own slot (`inside`), else (`begin`), and the slot open after it (`next`).
+ */
+interface TagReading {
+  slot: Int32Array;
+  inside: Int32Array;
+  begin: Int32Array;
+  next: Int32Array;
+}
+
+function tagReading(prefixOf: Int8Array, slotOf: Int32Array): TagReading {
+  const n = prefixOf.length;
+  const reading = { slot: slotOf, inside: new Int32Array(n), begin: new Int32Array(n), next: new Int32Array(n) };
+  for (let c = 0; c < n; c++) {
+    const prefix = prefixOf[c] as number;
+    const s = slotOf[c] as number;
+    if (prefix === RawPrefix.O) {
+      // Slot 0 with both codes 0: whatever was open, an O reads as O and closes it.
+      reading.slot[c] = 0;
+      continue;
+    }
+    const continues = prefix === RawPrefix.I || prefix === RawPrefix.E;
+    reading.begin[c] = 2 * s - 1;
+    reading.inside[c] = continues ? 2 * s : 2 * s - 1;
+    reading.next[c] = prefix === RawPrefix.E || prefix === RawPrefix.S ? 0 : s;
+  }
+  return reading;
+}
+
+/** Layer k's tags from `copy` into `out` at `at`, read as `reading` says. */
+function tagsRead(copy: LayerCopy, k: number, reading: TagReading, out: Int32Array, at: number): void {
+  const { slot, inside, begin, next } = reading;
+  const tags = copy.tags;
+  const to = copy.tagStart[k + 1] as number;
+  let open = 0;
+  for (let t = copy.tagStart[k] as number; t < to; t++) {
+    const c = tags[t] as number;
+    out[at++] = open === slot[c] ? (inside[c] as number) : (begin[c] as number);
+    open = next[c] as number;
+  }
+}
+
 export function copiesAlign(copies: readonly LayerCopy[], statuses: readonly LayerStatus[]): CopiesAligned | null {
   const wanted = new Uint8Array(LAYER_STATUSES.length + 1);
   for (const s of statuses) wanted[LAYER_STATUSES.indexOf(s) + 1] = 1;
@@ -147,7 +191,7 @@ export function copiesAlign(copies: readonly LayerCopy[], statuses: readonly Lay
     const pick = picks[l] as Int32Array;
     const mine = positions[l] as Int32Array;
     const { prefix: prefixOf, slot: localSlot } = tables[l] as { prefix: Int8Array; slot: Int32Array };
-    const slotOf = Int32Array.from(localSlot, (s) => slotOrder.remap[s] ?? s);
+    const reading = tagReading(prefixOf, Int32Array.from(localSlot, (s) => slotOrder.remap[s] ?? s));
     const local = intentLocal[l] as Int32Array;
     const tags = new Int32Array(tokenCount).fill(MISSING);
     const intentCodes = new Int32Array(count).fill(MISSING);
@@ -166,22 +210,7 @@ export function copiesAlign(copies: readonly LayerCopy[], statuses: readonly Lay
         intentCodes[u] = intentOrder.remap[local[intent] as number] as number;
         anyIntent = true;
       }
-      let at = offsets[u] as number;
-      // The CoNLL-2000 reading, as AlignLayerGatherer does it: a stray I-X (or E-X) opens a span, E-X and S-X close one.
-      let open = 0;
-      for (let t = copy.tagStart[k] as number; t < (copy.tagStart[k + 1] as number); t++) {
-        const c = copy.tags[t] as number;
-        const prefix = prefixOf[c] as number;
-        if (prefix === RawPrefix.O) {
-          open = 0;
-          tags[at++] = 0;
-          continue;
-        }
-        const slot = slotOf[c] as number;
-        const inside = (prefix === RawPrefix.I || prefix === RawPrefix.E) && open === slot;
-        tags[at++] = inside ? 2 * slot : 2 * slot - 1;
-        open = prefix === RawPrefix.E || prefix === RawPrefix.S ? 0 : slot;
-      }
+      tagsRead(copy, k, reading, tags, offsets[u] as number);
     }
     tagArrays.push(tags);
     intentArrays.push(intentCodes);
