@@ -156,7 +156,7 @@
         (local.set $r (i32.add (local.get $r) (i32.const 8)))
         (br $group))))
 
-  ;; Several changed utterances: `marked` is a bitset over the count positions, changeOf[k] (i32)
+  ;; Several changed utterances: `marked` holds a byte per position (1 if changed), changeOf[k] (i32)
   ;; the changed utterance's number c for a marked k. Per resample r and changed c, the number of
   ;; draws of c goes to hits[r · changed + c] (i32, zeroed here); four resamples at a time.
   (func (export "hitsMarked") (param $count i32) (param $marked i32) (param $changeOf i32) (param $changed i32)
@@ -188,26 +188,26 @@
             (local.set $k (i8x16.shuffle 4 5 6 7 12 13 14 15 20 21 22 23 28 29 30 31
               (i64x2.extmul_low_i32x4_u (local.get $t) (local.get $cnt))
               (i64x2.extmul_high_i32x4_u (local.get $t) (local.get $cnt))))
-            ;; lane by lane: bit k of `marked` (shr_u takes k mod 32), then count the hit
+            ;; lane by lane: byte k of `marked`, then count the hit
             (local.set $x (i32x4.extract_lane 0 (local.get $k)))
-            (if (i32.and (i32.shr_u (i32.load (i32.add (local.get $marked) (i32.shl (i32.shr_u (local.get $x) (i32.const 5)) (i32.const 2)))) (local.get $x)) (i32.const 1))
+            (if (i32.load8_u (i32.add (local.get $marked) (local.get $x)))
               (then
                 (local.set $a (i32.add (local.get $row) (i32.shl (i32.load (i32.add (local.get $changeOf) (i32.shl (local.get $x) (i32.const 2)))) (i32.const 2))))
                 (i32.store (local.get $a) (i32.add (i32.load (local.get $a)) (i32.const 1)))))
             (local.set $x (i32x4.extract_lane 1 (local.get $k)))
-            (if (i32.and (i32.shr_u (i32.load (i32.add (local.get $marked) (i32.shl (i32.shr_u (local.get $x) (i32.const 5)) (i32.const 2)))) (local.get $x)) (i32.const 1))
+            (if (i32.load8_u (i32.add (local.get $marked) (local.get $x)))
               (then
                 (local.set $a (i32.add (i32.add (local.get $row) (i32.shl (local.get $changed) (i32.const 2)))
                   (i32.shl (i32.load (i32.add (local.get $changeOf) (i32.shl (local.get $x) (i32.const 2)))) (i32.const 2))))
                 (i32.store (local.get $a) (i32.add (i32.load (local.get $a)) (i32.const 1)))))
             (local.set $x (i32x4.extract_lane 2 (local.get $k)))
-            (if (i32.and (i32.shr_u (i32.load (i32.add (local.get $marked) (i32.shl (i32.shr_u (local.get $x) (i32.const 5)) (i32.const 2)))) (local.get $x)) (i32.const 1))
+            (if (i32.load8_u (i32.add (local.get $marked) (local.get $x)))
               (then
                 (local.set $a (i32.add (i32.add (local.get $row) (i32.shl (local.get $changed) (i32.const 3)))
                   (i32.shl (i32.load (i32.add (local.get $changeOf) (i32.shl (local.get $x) (i32.const 2)))) (i32.const 2))))
                 (i32.store (local.get $a) (i32.add (i32.load (local.get $a)) (i32.const 1)))))
             (local.set $x (i32x4.extract_lane 3 (local.get $k)))
-            (if (i32.and (i32.shr_u (i32.load (i32.add (local.get $marked) (i32.shl (i32.shr_u (local.get $x) (i32.const 5)) (i32.const 2)))) (local.get $x)) (i32.const 1))
+            (if (i32.load8_u (i32.add (local.get $marked) (local.get $x)))
               (then
                 (local.set $a (i32.add (i32.add (local.get $row) (i32.mul (local.get $changed) (i32.const 12)))
                   (i32.shl (i32.load (i32.add (local.get $changeOf) (i32.shl (local.get $x) (i32.const 2)))) (i32.const 2))))
