@@ -19,6 +19,18 @@ export interface RowChanges {
   deltas: Float64Array;
 }
 
+/** Are row p of `x` and row q of `y` the same entries in the same order? */
+function rowsSame(x: UtteranceRows, p: number, y: UtteranceRows, q: number): boolean {
+  const from = x.rowStart[p] as number;
+  const length = (x.rowStart[p + 1] as number) - from;
+  const start = y.rowStart[q] as number;
+  if ((y.rowStart[q + 1] as number) - start !== length) return false;
+  for (let j = 0; j < length; j++) {
+    if (x.index[from + j] !== y.index[start + j] || x.value[from + j] !== y.value[start + j]) return false;
+  }
+  return true;
+}
+
 /** Utterances whose row differs between `before` and `after` (same shared utterances, same layout). */
 export function rowChanges(before: UtteranceRows, after: UtteranceRows, width: number): RowChanges {
   const count = after.patternOf.length;
@@ -28,6 +40,8 @@ export function rowChanges(before: UtteranceRows, after: UtteranceRows, width: n
   for (let u = 0; u < count; u++) {
     const p = before.patternOf[u] as number;
     const q = after.patternOf[u] as number;
+    // An unchanged utterance gives the same entries in the same order: skip it without the dense delta.
+    if (rowsSame(before, p, after, q)) continue;
     for (let j = before.rowStart[p] as number; j < (before.rowStart[p + 1] as number); j++) delta[before.index[j] as number]! -= before.value[j] as number;
     for (let j = after.rowStart[q] as number; j < (after.rowStart[q + 1] as number); j++) delta[after.index[j] as number]! += after.value[j] as number;
     let changed = false;
