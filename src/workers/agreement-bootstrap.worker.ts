@@ -1,6 +1,10 @@
 /** A helper thread of the agreement worker: one contiguous range of bootstrap resamples (the core's stream is splittable). */
 import * as Comlink from 'comlink';
 import { bootstrapPatchRange, bootstrapTotalsRange, type BootstrapJob, type BootstrapPatchPlan } from '../core/agreement';
+import { bootstrapWarm } from './bootstrap-warm';
+
+// Started ahead of need (with the agreement worker): the first real range then runs optimised code.
+bootstrapWarm();
 
 const api = {
   /** Totals of resamples [from, to), handed over without a copy. */

@@ -13,13 +13,16 @@ import { bootstrapParallel, bootstrapPatchParallel, type BootstrapHelper } from 
 import type { LayerScanProgress } from './agreement-read';
 import { agreementRun, type AgreementOutcome, type AgreementProgress, type AgreementRequest, type AgreementResult } from './agreement-run';
 import { overviewRun, type OverviewRequest, type OverviewResult } from './agreement-overview';
-import { bootstrapStoreRemembered, layerCopyStoreRemembered } from './memory-stores';
+import { bootstrapWarm } from './bootstrap-warm';
+import { bootstrapStoreRemembered, layerCopyStoreRemembered, WriteHold } from './memory-stores';
 import { workerCrashed } from './worker-job';
 
 let db: SlotsmithDb | undefined;
 let cache: AgreementCache<AgreementResult> | undefined;
 let copies: LayerCopyStore | undefined;
 let totals: BootstrapStore | undefined;
+/** Cache writes wait while an agreement run is going: they are made once it has answered. */
+const writes = new WriteHold();
 
 /** One helper per further core, up to three: the page's own thread stays free, as it waits on us. */
 function helperStart(): BootstrapHelper & { crashed: Promise<never> } {
@@ -66,15 +69,24 @@ function helpersLend(): BootstrapHelper[] {
 }
 
 const api = {
+  /**
+   * Made ready before the first run (the page calls this when a project opens): helpers started and
+   * the bootstrap's code optimised on both threads, off the path of the run itself.
+   */
+  warm(): void {
+    poolFill();
+    bootstrapWarm();
+  },
   /** Callbacks arrive as Comlink proxies; their calls are not awaited, so the page never slows the run. */
   /** `fresh`: compute even when figures for unchanged layers are kept ("Compute again"). */
   agreement(request: AgreementRequest, onProgress: (p: AgreementProgress) => void, onPoint?: (early: AgreementResult) => void, fresh = false): Promise<AgreementOutcome> {
     db ??= dbOpen();
     cache ??= agreementCacheOpen<AgreementResult>(indexedDB);
-    copies ??= layerCopyStoreRemembered(layerCopyStoreOpen(indexedDB));
-    totals ??= bootstrapStoreRemembered(bootstrapStoreOpen(indexedDB));
+    copies ??= layerCopyStoreRemembered(layerCopyStoreOpen(indexedDB), writes);
+    totals ??= bootstrapStoreRemembered(bootstrapStoreOpen(indexedDB), writes);
     if ((request.bootstrap ?? 1000) > 0) poolFill();
-    return agreementRun(db, request, (p) => void onProgress(p), {
+    writes.hold();
+    const run = agreementRun(db, request, (p) => void onProgress(p), {
       ...(onPoint !== undefined && { onPoint: (early: AgreementResult) => void onPoint(early) }),
       bootstrap: bootstrapParallel(helpersLend),
       patch: bootstrapPatchParallel(helpersLend),
@@ -85,10 +97,13 @@ const api = {
       // The page keeps this worker after the answer: stores finish meanwhile (memory-stores.ts holds them already).
       storeAfter: (writing) => void writing.catch(() => undefined),
     });
+    // A task after the answer (Comlink posts it as the run settles, in microtasks): then the held writes.
+    void run.finally(() => setTimeout(() => writes.release(), 0)).catch(() => undefined);
+    return run;
   },
   overview(request: OverviewRequest, onProgress: (p: LayerScanProgress) => void): Promise<OverviewResult> {
     db ??= dbOpen();
-    copies ??= layerCopyStoreRemembered(layerCopyStoreOpen(indexedDB));
+    copies ??= layerCopyStoreRemembered(layerCopyStoreOpen(indexedDB), writes);
     return overviewRun(db, request, (p) => void onProgress(p), copies);
   },
 };

@@ -14,8 +14,8 @@ export interface BootstrapHelper {
   end(): void;
 }
 
-// Progress steps of this thread's own share (as in `bootstrapHere`).
-const STEP = 100;
+// Progress steps of this thread's own share: a few calls, as each sorts the rows by column and copies them into WebAssembly memory again.
+const STEP = 250;
 
 /** Ranges of resample totals joined in order. */
 export function totalsJoin(parts: readonly Float64Array[]): Float64Array {

@@ -4,7 +4,7 @@ import type { BootstrapTotals } from '../../src/core/agreement';
 import { bootstrapStoreOpen } from '../../src/db/bootstrap-store';
 import { LayerCopyBuilder, type LayerCopy } from '../../src/db/layer-copy';
 import { layerCopyStoreOpen, type LayerCopyStore } from '../../src/db/layer-copy-store';
-import { bootstrapStoreRemembered, layerCopyStoreRemembered } from '../../src/workers/memory-stores';
+import { bootstrapStoreRemembered, layerCopyStoreRemembered, WriteHold } from '../../src/workers/memory-stores';
 
 function copyOf(projectId: number, annotator: string, historyLast: number): LayerCopy {
   const builder = new LayerCopyBuilder(projectId, annotator);
@@ -78,5 +78,50 @@ describe('bootstrapStoreRemembered', () => {
     expect((await store.load(1, 'pair y'))?.totals[0]).toBe(2);
     await store.forget(1);
     expect(await store.load(1, 'pair y')).toBeUndefined();
+  });
+});
+
+describe('WriteHold', () => {
+  it('makes writes at once when not holding, and holds them in order until release otherwise', async () => {
+    const writes = new WriteHold();
+    const made: string[] = [];
+    const write = (name: string) => () => {
+      made.push(name);
+      return Promise.resolve();
+    };
+    await writes.write(write('now'));
+    expect(made).toEqual(['now']);
+    writes.hold();
+    const first = writes.write(write('first'));
+    const second = writes.write(write('second'));
+    await Promise.resolve();
+    expect(made).toEqual(['now']);
+    writes.release();
+    await Promise.all([first, second]);
+    expect(made).toEqual(['now', 'first', 'second']);
+    // Released: the next write is made at once again.
+    await writes.write(write('after'));
+    expect(made.at(-1)).toBe('after');
+  });
+
+  it('holds a remembered store’s database writes while its memory already answers', async () => {
+    const writes = new WriteHold();
+    const factory = new IDBFactory();
+    const store = layerCopyStoreRemembered(layerCopyStoreOpen(factory), writes);
+    writes.hold();
+    const saving = store.save([copyOf(1, 'ann-a', 9)]);
+    expect((await store.load(1, ['ann-a'])).get('ann-a')?.signature.historyLast).toBe(9);
+    expect((await layerCopyStoreOpen(factory).load(1, ['ann-a'])).size).toBe(0);
+    writes.release();
+    await saving;
+    expect((await layerCopyStoreOpen(factory).load(1, ['ann-a'])).get('ann-a')?.signature.historyLast).toBe(9);
+  });
+
+  it('passes a failed write’s error to its caller', async () => {
+    const writes = new WriteHold();
+    writes.hold();
+    const failing = writes.write(() => Promise.reject(new Error('disk full')));
+    writes.release();
+    await expect(failing).rejects.toThrow('disk full');
   });
 });

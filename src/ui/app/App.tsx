@@ -42,9 +42,23 @@ function useStartupCleanup(): string | null {
   return notice;
 }
 
+/** When a project opens, once the page is idle: start what a first look at its figures needs. */
+function useProjectWarm(projectId: number | null): void {
+  useEffect(() => {
+    if (projectId === null) return;
+    if (typeof requestIdleCallback === 'undefined') {
+      const timer = setTimeout(projectViews.projectWarm, 1000);
+      return () => clearTimeout(timer);
+    }
+    const idle = requestIdleCallback(projectViews.projectWarm, { timeout: 2000 });
+    return () => cancelIdleCallback(idle);
+  }, [projectId]);
+}
+
 export function App() {
   const { view, projectId, go } = useNav();
   const notice = useStartupCleanup();
+  useProjectWarm(projectId);
   let screen: ReactNode;
   const Restore = projectViews.restore;
   const PackOpen = projectViews.packOpen;

@@ -1,5 +1,6 @@
 import type { ComponentType } from 'react';
 import { AgreementView } from '../features/agreement/AgreementView';
+import { dashboardWorkerWarm } from '../features/agreement/dashboard-worker';
 import { CorpusView } from '../features/corpus/CorpusView';
 import { ExportView } from '../features/export/ExportView';
 import { demoLoad } from '../features/import/demo-load';
@@ -43,9 +44,12 @@ export const projectViews: {
   packOpen: ComponentType<{ onOpen: (projectId: number) => void }>;
   /** Who is labelling at this browser, shown in the header on every screen. */
   profile: ComponentType;
+  /** Called when a project opens: workers a first look at its figures needs are started meanwhile. */
+  projectWarm: () => void;
   /** Choosing who labels, where a screen needs a profile first (the label screen). */
   profileChooser: ComponentType<{ onChosen?: () => void }>;
 } = {
+  projectWarm: dashboardWorkerWarm,
   overview: OverviewView,
   corpus: CorpusView,
   label: LabelView,

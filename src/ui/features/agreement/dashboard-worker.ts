@@ -76,3 +76,15 @@ export function dashboardJobStart<P, T>(what: string, call: (api: Comlink.Remote
     label,
   );
 }
+
+/**
+ * Starts the worker ahead of a first run (when a project opens): its code loads, its helpers start
+ * and the bootstrap's code is optimised meanwhile. Idle like after a run: ended after IDLE_MS.
+ */
+export function dashboardWorkerWarm(): void {
+  if (kept !== null) return;
+  const k = started('agreement');
+  kept = k;
+  k.api.warm().catch(() => keptEnd(k));
+  k.idle = setTimeout(() => keptEnd(k), IDLE_MS);
+}
