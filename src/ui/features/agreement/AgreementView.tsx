@@ -26,9 +26,72 @@ function progressText(p: AgreementProgress | null): string {
   return `Intervals: ${countText(p.done)} of ${countText(p.total)} resamples`;
 }
 
+/**
+ * Everything but the figures table: the same objects in the early result and the final one (the
+ * final only adds the intervals; see `useAgreementRun`), so the final render leaves them alone.
+ */
+interface SectionsProps {
+  report: AgreementResult['report'];
+  overTime: AgreementResult['overTime'];
+  disagreements: AgreementResult['disagreements'];
+  projectId: number;
+}
+
+/** The parts of the report the sections show, compared by reference (the intervals, `ci`, are not among them). */
+function sectionsSame(x: SectionsProps, y: SectionsProps): boolean {
+  const a = x.report;
+  const b = y.report;
+  return (
+    x.overTime === y.overTime &&
+    x.disagreements === y.disagreements &&
+    x.projectId === y.projectId &&
+    a.layers === b.layers &&
+    a.pairNames === b.pairNames &&
+    a.perSlot === b.perSlot &&
+    a.confusion === b.confusion &&
+    a.disagreements === b.disagreements &&
+    a.fleissKappa === b.fleissKappa &&
+    a.alpha === b.alpha &&
+    a.pairwise === b.pairwise
+  );
+}
+
+const Sections = memo(function Sections({ report, overTime, disagreements, projectId }: SectionsProps) {
+  const { go } = useNav();
+  const names = report.pairNames;
+  return (
+    <>
+      <MultiFigures report={report} />
+      <section aria-labelledby="agreement-slots-title">
+        <h3 id="agreement-slots-title">Per slot</h3>
+        <SlotBars perSlot={report.perSlot} names={names} />
+        <SlotTable perSlot={report.perSlot} names={names} />
+      </section>
+      <section aria-labelledby="agreement-confusion-title">
+        <h3 id="agreement-confusion-title">Which slot types get confused</h3>
+        <ConfusionHeatmap labels={report.confusion.labels} counts={report.confusion.counts} names={names} />
+        <ConfusionTable labels={report.confusion.labels} counts={report.confusion.counts} names={names} />
+      </section>
+      <section aria-labelledby="agreement-time-title">
+        <h3 id="agreement-time-title">Agreement over time</h3>
+        <TimeChart points={overTime} />
+        <TimeTable points={overTime} />
+      </section>
+      <section aria-labelledby="agreement-list-title">
+        <h3 id="agreement-list-title">Disagreeing utterances</h3>
+        <DisagreementList
+          items={disagreements}
+          total={report.disagreements.total}
+          names={names}
+          onOpen={(d) => go('resolve', projectId, { u: String(d.utteranceId), a: names[0], b: names[1] })}
+        />
+      </section>
+    </>
+  );
+}, sectionsSame);
+
 /** Memoised: progress messages re-render the screen, never the dashboard under them. */
 const Dashboard = memo(function Dashboard({ result, projectId }: { result: AgreementResult; projectId: number }) {
-  const { go } = useNav();
   const { report } = result;
   const names = report.pairNames;
   return (
@@ -48,31 +111,7 @@ const Dashboard = memo(function Dashboard({ result, projectId }: { result: Agree
         <h3 id="agreement-figures-title">Figures</h3>
         <FiguresTable report={report} intervalsPending={result.intervalsPending} />
       </section>
-      <MultiFigures report={report} />
-      <section aria-labelledby="agreement-slots-title">
-        <h3 id="agreement-slots-title">Per slot</h3>
-        <SlotBars perSlot={report.perSlot} names={names} />
-        <SlotTable perSlot={report.perSlot} names={names} />
-      </section>
-      <section aria-labelledby="agreement-confusion-title">
-        <h3 id="agreement-confusion-title">Which slot types get confused</h3>
-        <ConfusionHeatmap labels={report.confusion.labels} counts={report.confusion.counts} names={names} />
-        <ConfusionTable labels={report.confusion.labels} counts={report.confusion.counts} names={names} />
-      </section>
-      <section aria-labelledby="agreement-time-title">
-        <h3 id="agreement-time-title">Agreement over time</h3>
-        <TimeChart points={result.overTime} />
-        <TimeTable points={result.overTime} />
-      </section>
-      <section aria-labelledby="agreement-list-title">
-        <h3 id="agreement-list-title">Disagreeing utterances</h3>
-        <DisagreementList
-          items={result.disagreements}
-          total={report.disagreements.total}
-          names={names}
-          onOpen={(d) => go('resolve', projectId, { u: String(d.utteranceId), a: names[0], b: names[1] })}
-        />
-      </section>
+      <Sections report={report} overTime={result.overTime} disagreements={result.disagreements} projectId={projectId} />
     </>
   );
 });

@@ -3,6 +3,7 @@ import { startTransition, useCallback, useEffect, useRef, useState } from 'react
 import type { AgreementOutcome, AgreementProgress, AgreementRequest, AgreementResult } from '../../../workers/agreement-run';
 import { JobCancelledError, type WorkerJob } from '../../../workers/worker-job';
 import { agreementStart } from './agreement-client';
+import { withEarlyParts } from './early-parts';
 
 export type AgreementRunState =
   | { kind: 'idle' }
@@ -38,7 +39,10 @@ export function useAgreementRun(request: AgreementRequest | null, stamp: string)
       JSON.parse(key) as AgreementRequest,
       (progress) => setState({ kind: 'running', progress }),
       // A transition: React renders the dashboard in slices that yield to the page, not in one long task.
-      (figures) => startTransition(() => setEarly(figures)),
+      (figures) => {
+        shown = figures;
+        startTransition(() => setEarly(figures));
+      },
       fresh,
     );
     job.current = started;
@@ -49,9 +53,10 @@ export function useAgreementRun(request: AgreementRequest | null, stamp: string)
       setState({ kind: 'running', progress: null });
       setEarly(null);
     });
+    let shown: AgreementResult | null = null;
     started.result.then(
       (outcome) => {
-        if (job.current === started) startTransition(() => setState({ kind: 'done', outcome, stamp: startStamp }));
+        if (job.current === started) startTransition(() => setState({ kind: 'done', outcome: withEarlyParts(outcome, shown), stamp: startStamp }));
       },
       (error: unknown) => {
         if (job.current !== started) return;
