@@ -167,6 +167,7 @@ export function AgreementView({ projectId }: ProjectViewProps) {
   const stamp = signature ?? '';
   const { state, early, cancel, again } = useAgreementRun(request, stamp);
   const stale = state.kind === 'done' && signature !== undefined && state.stamp !== stamp;
+  const shown = state.kind === 'done' ? (state.outcome.ok ? state.outcome : null) : state.kind === 'running' ? early : null;
   return (
     <section aria-labelledby="agreement-title" className="agreement">
       <h2 id="agreement-title">Agreement{project === undefined ? '' : `: ${project.name}`}</h2>
@@ -205,8 +206,8 @@ export function AgreementView({ projectId }: ProjectViewProps) {
         </div>
       )}
       {stale && <p role="status">Labels or layers have changed since these figures were computed; use “Compute again” to bring them up to date.</p>}
-      {state.kind === 'running' && early !== null && <Dashboard result={early} projectId={projectId} />}
-      {state.kind === 'done' && state.outcome.ok && <Dashboard result={state.outcome} projectId={projectId} />}
+      {/* One place for the early figures and the final ones: the final render updates the dashboard instead of mounting it anew. */}
+      {shown !== null && <Dashboard result={shown} projectId={projectId} />}
     </section>
   );
 }
