@@ -278,7 +278,8 @@ export async function agreementRun(
     };
     if (options.storeAfter !== undefined) {
       const final = result(report, false);
-      options.storeAfter(Promise.all(stores).then(() => save(final)));
+      // The figures (small) are saved at once, so a reopened screen finds them even while the copies and totals are still being written.
+      options.storeAfter(Promise.all([...stores, save(final)]).then(() => undefined));
       return final;
     }
     await Promise.all(stores);

@@ -5,6 +5,7 @@ import { columnsRead } from '../../src/core/formats';
 import { agreementCacheOpen, AGREEMENT_CACHE_PER_PROJECT } from '../../src/db/agreement-cache';
 import { bootstrapStoreOpen } from '../../src/db/bootstrap-store';
 import { layerCopyStoreOpen } from '../../src/db/layer-copy-store';
+import { bootstrapStoreRemembered, layerCopyStoreRemembered, WriteHold } from '../../src/workers/memory-stores';
 import { corpusIndexSignature } from '../../src/db/corpus-index';
 import { layerSave } from '../../src/db/layer-repo';
 import { agreementRun, type AgreementOutcome, type AgreementRequest, type AgreementResult } from '../../src/workers/agreement-run';
@@ -106,6 +107,21 @@ describe('agreement results kept for unchanged layers', () => {
     expect(fresh.report).toEqual(first.report);
     // Without storeAfter the run waits for its writes, and says how long they took.
     expect(fresh.timings.steps).toHaveProperty('stored');
+  });
+
+  it('with storeAfter the figures are saved at once: a run right after finds them while the copies’ writes are still held', async () => {
+    const { db, projectId, cache } = await seeded();
+    const writes = new WriteHold();
+    const copies = layerCopyStoreRemembered(layerCopyStoreOpen(new IDBFactory()), writes);
+    const totals = bootstrapStoreRemembered(bootstrapStoreOpen(new IDBFactory()), writes);
+    writes.hold();
+    const handed: Promise<void>[] = [];
+    const first = ok(await agreementRun(db, request(projectId), undefined, { cache, copies, totals, storeAfter: (w) => handed.push(w) }));
+    const again = ok(await agreementRun(db, request(projectId), undefined, { cache, copies, totals, storeAfter: (w) => handed.push(w) }));
+    expect(again.keptFrom).toEqual(expect.any(Number));
+    expect(shown(again)).toEqual(shown(first));
+    writes.release();
+    await Promise.all(handed);
   });
 
   it('keeps the newest few results of a project, and ignores entries of another signature', async () => {
