@@ -1,5 +1,5 @@
 import { useLiveQuery } from 'dexie-react-hooks';
-import { memo } from 'react';
+import { memo, useEffect, useState } from 'react';
 import { projectGet } from '../../../db/project-repo';
 import { useNav } from '../../../state/nav';
 import type { AgreementProgress, AgreementResult } from '../../../workers/agreement-run';
@@ -90,8 +90,27 @@ const Sections = memo(function Sections({ report, overTime, disagreements, proje
   );
 }, sectionsSame);
 
+/**
+ * How long the early figures stand alone before the sections under them are drawn anyway. On two
+ * cores the intervals are resampled on both while the page lays out the charts and the list (~1,700
+ * layout objects): the layout then waited for a core (a 130 ms task, the renderer trace said) and
+ * slowed the resampling. Drawn with the intervals instead, unless those take longer than this.
+ */
+const SECTIONS_WAIT_MS = 1000;
+
+function useSectionsDue(pending: boolean): boolean {
+  const [due, setDue] = useState(!pending);
+  useEffect(() => {
+    if (due || !pending) return;
+    const timer = setTimeout(() => setDue(true), SECTIONS_WAIT_MS);
+    return () => clearTimeout(timer);
+  }, [due, pending]);
+  return due || !pending;
+}
+
 /** Memoised: progress messages re-render the screen, never the dashboard under them. */
 const Dashboard = memo(function Dashboard({ result, projectId }: { result: AgreementResult; projectId: number }) {
+  const sectionsDue = useSectionsDue(result.intervalsPending);
   const { report } = result;
   const names = report.pairNames;
   return (
@@ -111,7 +130,7 @@ const Dashboard = memo(function Dashboard({ result, projectId }: { result: Agree
         <h3 id="agreement-figures-title">Figures</h3>
         <FiguresTable report={report} intervalsPending={result.intervalsPending} />
       </section>
-      <Sections report={report} overTime={result.overTime} disagreements={result.disagreements} projectId={projectId} />
+      {sectionsDue && <Sections report={report} overTime={result.overTime} disagreements={result.disagreements} projectId={projectId} />}
     </>
   );
 });
